@@ -1,0 +1,33 @@
+/**
+ * @recede/core — the engine: seeded streams, flat-array kernels, Bregman geometries, and the
+ * mirror-descent learners behind one online-learner protocol.
+ *
+ * @packageDocumentation
+ */
+export {
+  describe,
+  RecedeError,
+  type RecedeErrorCode,
+  requireFinite,
+  requireInRange,
+  requireInteger,
+  requirePositive,
+  requireVector,
+} from "./errors.js";
+export { createStream, type Stream, type StreamState } from "./rng.js";
+export {
+  type Feedback,
+  type LossObject,
+  type Observable,
+  ObserverList,
+  type OnlineLearner,
+  type RoundRecord,
+} from "./protocol.js";
+export type { Geometry } from "./divergence/geometry.js";
+export {
+  type MatrixInput,
+  type NdArrayLike,
+  type RowMajorMatrix,
+  toRowMajor,
+} from "./matrixInput.js";
+export * as kernels from "./kernels/index.js";

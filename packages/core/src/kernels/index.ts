@@ -1,0 +1,12 @@
+export { axpy, copy, dot, fill, nrm2, scale } from "./vector.js";
+export { expWeights, logSumExp } from "./logsumexp.js";
+export {
+  backSubstituteTransposed,
+  cholesky,
+  choleskyLogDet,
+  choleskySolve,
+  forwardSubstitute,
+  gemm,
+  gemv,
+  symv,
+} from "./matrix.js";
