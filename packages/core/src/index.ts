@@ -30,4 +30,11 @@ export {
   type RowMajorMatrix,
   toRowMajor,
 } from "./matrixInput.js";
+export {
+  batchDynamics,
+  type ControlBounds,
+  type CostModel,
+  type Dynamics,
+  type PointDynamics,
+} from "./model.js";
 export * as kernels from "./kernels/index.js";

@@ -1,0 +1,102 @@
+/**
+ * The model contracts shared by MPC, policy gradient and the reference problems: batched dynamics,
+ * batched costs and box bounds on the control, all on flat row-major Float64Array buffers.
+ *
+ * Sizes: n = state size, m = control size. A batch of `count` states lives at
+ * `x[xo + k·n + i]` (k < count, i < n); the matching controls at `u[uo + k·m + j]`.
+ * Implementations allocate nothing per call and never read or write outside the indexed range,
+ * so a worker can process a slice of a shared buffer by passing offsets and a count.
+ *
+ * @module
+ */
+
+/** Discrete-time dynamics x_{t+1} = f(x_t, u_t, t), evaluated for a batch in place. */
+export interface Dynamics {
+  /** State size n. */
+  readonly stateSize: number;
+  /** Control size m. */
+  readonly controlSize: number;
+  /**
+   * Advance `count` states in place: for k < count,
+   * x[xo+k·n ..] ← f(x[xo+k·n ..], u[uo+k·m ..], t). `t` is the time index within the horizon
+   * (0-based) for time-varying models; time-invariant models ignore it.
+   * A model may write non-finite values for samples it cannot advance; callers treat them as failed.
+   */
+  step(x: Float64Array, xo: number, u: Float64Array, uo: number, count: number, t: number): void;
+  /**
+   * Optional Jacobians at one point: A ← ∂f/∂x (n×n row-major), B ← ∂f/∂u (n×m row-major).
+   */
+  jacobians?(x: Float64Array, u: Float64Array, t: number, a: Float64Array, b: Float64Array): void;
+}
+
+/** Running and terminal costs, accumulated for a batch. */
+export interface CostModel {
+  /** State size n. */
+  readonly stateSize: number;
+  /** Control size m. */
+  readonly controlSize: number;
+  /**
+   * out[oo+k] += c(x_k, u_k, t) for k < count, with x_k at x[xo+k·n ..] and u_k at u[uo+k·m ..]
+   * (the state *before* the step at time t, and the control applied at t).
+   */
+  running(
+    x: Float64Array,
+    xo: number,
+    u: Float64Array,
+    uo: number,
+    count: number,
+    t: number,
+    out: Float64Array,
+    oo: number,
+  ): void;
+  /** out[oo+k] += c_H(x_k) for k < count (the state after the last step). */
+  terminal(x: Float64Array, xo: number, count: number, out: Float64Array, oo: number): void;
+}
+
+/** Box bounds lower ≤ u ≤ upper on each control component (±Infinity for none). */
+export interface ControlBounds {
+  readonly lower: Float64Array;
+  readonly upper: Float64Array;
+}
+
+/** A single-sample dynamics function, for {@link batchDynamics}. */
+export interface PointDynamics {
+  readonly stateSize: number;
+  readonly controlSize: number;
+  /** out ← f(x, u, t). `out` never aliases `x`. */
+  next(x: Float64Array, u: Float64Array, t: number, out: Float64Array): void;
+  jacobians?(x: Float64Array, u: Float64Array, t: number, a: Float64Array, b: Float64Array): void;
+}
+
+/**
+ * Wrap a per-sample dynamics function into the batched {@link Dynamics} contract.
+ *
+ * Convenient, at a measured cost (see the benchmark notes in docs/real-time.md): each sample is
+ * copied into and out of small scratch vectors allocated once here.
+ */
+export function batchDynamics(point: PointDynamics): Dynamics {
+  const n = point.stateSize;
+  const m = point.controlSize;
+  const xs = new Float64Array(n);
+  const us = new Float64Array(m);
+  const out = new Float64Array(n);
+  const dyn: Dynamics = {
+    stateSize: n,
+    controlSize: m,
+    step(x, xo, u, uo, count, t): void {
+      for (let k = 0; k < count; k++) {
+        const xb = xo + k * n;
+        const ub = uo + k * m;
+        for (let i = 0; i < n; i++) xs[i] = x[xb + i];
+        for (let j = 0; j < m; j++) us[j] = u[ub + j];
+        point.next(xs, us, t, out);
+        for (let i = 0; i < n; i++) x[xb + i] = out[i];
+      }
+    },
+  };
+  if (point.jacobians) {
+    const jac = point.jacobians.bind(point);
+    return { ...dyn, step: dyn.step, jacobians: jac };
+  }
+  return dyn;
+}
