@@ -4,6 +4,9 @@
  *
  * @packageDocumentation
  */
+
+export { gaussianDiagonalStep, gaussianFullStep } from "./divergence/gaussian.js";
+export type { Geometry } from "./divergence/geometry.js";
 export {
   describe,
   RecedeError,
@@ -14,16 +17,7 @@ export {
   requirePositive,
   requireVector,
 } from "./errors.js";
-export { createStream, type Stream, type StreamState } from "./rng.js";
-export {
-  type Feedback,
-  type LossObject,
-  type Observable,
-  ObserverList,
-  type OnlineLearner,
-  type RoundRecord,
-} from "./protocol.js";
-export type { Geometry } from "./divergence/geometry.js";
+export * as kernels from "./kernels/index.js";
 export {
   type MatrixInput,
   type NdArrayLike,
@@ -37,4 +31,12 @@ export {
   type Dynamics,
   type PointDynamics,
 } from "./model.js";
-export * as kernels from "./kernels/index.js";
+export {
+  type Feedback,
+  type LossObject,
+  type Observable,
+  ObserverList,
+  type OnlineLearner,
+  type RoundRecord,
+} from "./protocol.js";
+export { createStream, type Stream, type StreamState } from "./rng.js";

@@ -80,13 +80,7 @@ export function toRowMajor(
     }
     get = (i, j) => rm.data[i * c + j];
   } else {
-    throw new RecedeError(
-      "type",
-      fn,
-      arg,
-      "an ndarray, {data, rows, cols} or an array of rows",
-      m,
-    );
+    throw new RecedeError("type", fn, arg, "an ndarray, {data, rows, cols} or an array of rows", m);
   }
   if ((rows >= 0 && r !== rows) || (cols >= 0 && c !== cols)) {
     throw new RecedeError(
@@ -101,7 +95,8 @@ export function toRowMajor(
   for (let i = 0; i < r; i++) {
     for (let j = 0; j < c; j++) {
       const v = get(i, j);
-      if (!Number.isFinite(v)) throw new RecedeError("non-finite", fn, `${arg}[${i}][${j}]`, "finite", v);
+      if (!Number.isFinite(v))
+        throw new RecedeError("non-finite", fn, `${arg}[${i}][${j}]`, "finite", v);
       data[i * c + j] = v;
     }
   }

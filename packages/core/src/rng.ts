@@ -135,7 +135,13 @@ class AleaStream implements Stream {
 
   setState(state: StreamState): void {
     if (state.seed !== this.seed) {
-      throw new RecedeError("state", "Stream.setState", "state.seed", JSON.stringify(this.seed), state.seed);
+      throw new RecedeError(
+        "state",
+        "Stream.setState",
+        "state.seed",
+        JSON.stringify(this.seed),
+        state.seed,
+      );
     }
     this.prng = (
       seedrandom.alea as unknown as (s: string, o: { state: boolean | object }) => AleaPrng
@@ -158,7 +164,13 @@ class AleaStream implements Stream {
  */
 export function createStream(seed: number | string): Stream {
   if (typeof seed === "number" && !Number.isFinite(seed)) {
-    throw new RecedeError("non-finite", "createStream", "seed", "a finite number or a string", seed);
+    throw new RecedeError(
+      "non-finite",
+      "createStream",
+      "seed",
+      "a finite number or a string",
+      seed,
+    );
   }
   if (typeof seed !== "number" && typeof seed !== "string") {
     throw new RecedeError("type", "createStream", "seed", "a number or a string", seed);

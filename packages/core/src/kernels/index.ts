@@ -1,4 +1,3 @@
-export { axpy, copy, dot, fill, nrm2, scale } from "./vector.js";
 export { expWeights, logSumExp } from "./logsumexp.js";
 export {
   backSubstituteTransposed,
@@ -10,3 +9,4 @@ export {
   gemv,
   symv,
 } from "./matrix.js";
+export { axpy, copy, dot, fill, nrm2, scale } from "./vector.js";
