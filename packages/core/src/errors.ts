@@ -14,7 +14,8 @@ export type RecedeErrorCode =
   | "not-spd" // a matrix that must be symmetric positive definite is not
   | "domain" // a point outside the geometry's domain (off the simplex, negative variance, …)
   | "type" // a value of the wrong kind (not a Float64Array, not a function, …)
-  | "state"; // an operation that is invalid in the object's current state
+  | "state" // an operation that is invalid in the object's current state
+  | "callback"; // a user-supplied function (loss, dynamic step, schedule) threw
 
 /**
  * Base class of every error recede throws for invalid input.

@@ -5,8 +5,41 @@
  * @packageDocumentation
  */
 
-export { gaussianDiagonalStep, gaussianFullStep } from "./divergence/gaussian.js";
+export {
+  type DiagonalGaussianGeometry,
+  type DiagonalGaussianOptions,
+  diagonalGaussian,
+} from "./divergence/diagonalGaussian.js";
+export {
+  type EntropyGeometry,
+  type EntropyOptions,
+  entropy,
+} from "./divergence/entropy.js";
+export {
+  type BallSet,
+  type BoxSet,
+  type EuclideanFeasibleSet,
+  type EuclideanGeometry,
+  type EuclideanOptions,
+  euclidean,
+} from "./divergence/euclidean.js";
+export {
+  gaussianDiagonalStep,
+  gaussianFullStep,
+  klDiagonalGaussian,
+  klGaussian,
+} from "./divergence/gaussian.js";
 export type { Geometry } from "./divergence/geometry.js";
+export {
+  type MahalanobisGeometry,
+  type MahalanobisOptions,
+  mahalanobis,
+} from "./divergence/mahalanobis.js";
+export {
+  type PositiveEntropyGeometry,
+  type PositiveEntropyOptions,
+  positiveEntropy,
+} from "./divergence/positiveEntropy.js";
 export {
   describe,
   RecedeError,
@@ -17,7 +50,28 @@ export {
   requirePositive,
   requireVector,
 } from "./errors.js";
+export type { VectorInput } from "./internal/vectorInput.js";
 export * as kernels from "./kernels/index.js";
+export {
+  type DynamicMirrorDescentOptions,
+  type DynamicStep,
+  dynamicMirrorDescent,
+} from "./learners/dynamicMirrorDescent.js";
+export {
+  type MirrorDescentLearner,
+  type MirrorDescentOptions,
+  type MirrorDescentSnapshot,
+  mirrorDescent,
+} from "./learners/mirrorDescent.js";
+export {
+  adaGradStep,
+  constantStep,
+  inverseSqrtStep,
+  type StepSize,
+  type StepSizeInput,
+  scheduledStep,
+} from "./learners/stepSize.js";
+export { discreteLyapunov, type LyapunovOptions, spectralRadius } from "./linalg/lyapunov.js";
 export {
   type MatrixInput,
   type NdArrayLike,

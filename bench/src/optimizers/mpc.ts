@@ -1,0 +1,273 @@
+/**
+ * Sweep adapters for the controllers of `@recede/mpc`:
+ *
+ * - `mppi` — the MPPI preset; `cem` — the CEM preset;
+ * - `variant` — the generic controller composed from parts named in the sweep file (loss, step
+ *   size γ, covariance adaptation, iterations, noise correlation, shift fill): how a user derives
+ *   and benchmarks a new variant without code;
+ * - `lqr` — the infinite-horizon LQR gain from the discrete algebraic Riccati equation about the
+ *   problem's equilibrium, u = ū − K (x − x̄) (needs the problem's linear-quadratic data).
+ *
+ * The Gaussian plan starts at the problem's equilibrium control (hover thrust for the drone), so
+ * every sampling controller starts from "hold still" rather than from zero thrust.
+ *
+ * @module
+ */
+import { RecedeError } from "@recede/core";
+import {
+  type Controller,
+  cem,
+  createController,
+  lqr,
+  eliteFraction,
+  expectedCost,
+  exponentialUtility,
+  gaussianPlan,
+  mppi,
+  type SampleLoss,
+  shiftPlan,
+} from "@recede/mpc";
+import { wrapAngle } from "@recede/problems";
+import type { ParamSchemaMap, ParamValues } from "../params.js";
+import type { BenchController, BenchProblem, FactoryContext, OptimizerDefinition } from "../registry.js";
+
+/** Parameters shared by the sampling kinds (sweep-file names). */
+const samplingParams: ParamSchemaMap = {
+  samples: { type: "integer", min: 1, default: 256, description: "samples K per iteration" },
+  horizon: { type: "integer", min: 1, default: 30, description: "horizon H in control steps" },
+  noise: {
+    type: "numbers",
+    above: 0,
+    description: "initial sampling standard deviation per control component (length m; default 1 each)",
+  },
+  iterations: { type: "integer", min: 1, description: "mirror steps per control step (default: the preset's)" },
+  correlation: {
+    type: "number",
+    min: 0,
+    max: 0.99,
+    default: 0,
+    description: "correlation a ∈ [0, 1) of the sampling noise between consecutive steps",
+  },
+  keepMeanSample: {
+    type: "boolean",
+    default: false,
+    description: "keep one sample at the unperturbed plan",
+  },
+  fill: {
+    type: "string",
+    values: ["repeat", "zero", "nominal"],
+    default: "nominal",
+    description: "tail fill of the shifted plan",
+  },
+};
+
+function noiseOf(params: ParamValues, problem: BenchProblem, kind: string): Float64Array {
+  const m = problem.controlSize;
+  const v = params.noise as readonly number[] | undefined;
+  if (v === undefined) return new Float64Array(m).fill(1);
+  if (v.length !== m)
+    throw new RecedeError("dimension", kind, "noise", `${m} entries (one per control of ${problem.id})`, v.length);
+  return Float64Array.from(v);
+}
+
+function meanOf(problem: BenchProblem): Float64Array {
+  return problem.equilibrium ? Float64Array.from(problem.equilibrium.control) : new Float64Array(problem.controlSize);
+}
+
+/** Wrap an `@recede/mpc` controller: samples per step = K × iterations actually run. */
+export function wrapController(c: Controller): BenchController {
+  return {
+    act(x) {
+      const { control, report } = c.act(x);
+      return { control, samples: c.samples * report.iterations };
+    },
+  };
+}
+
+function checkNoise(params: ParamValues, problem: BenchProblem, kind: string): void {
+  noiseOf(params, problem, kind);
+}
+
+/** The `mppi` kind. */
+export const mppiDefinition: OptimizerDefinition = {
+  kind: "mppi",
+  description: "MPPI (Williams et al. 2017): exponential-utility weights, KL step with γ = 1, fixed noise.",
+  params: {
+    ...samplingParams,
+    temperature: { type: "number", above: 0, default: 1, description: "temperature λ" },
+  },
+  check: (params, problem) => checkNoise(params, problem, "mppi"),
+  create(params, problem, ctx: FactoryContext) {
+    return wrapController(
+      mppi({
+        dynamics: problem.model,
+        cost: problem.cost,
+        horizon: params.horizon as number,
+        samples: params.samples as number,
+        temperature: params.temperature as number,
+        noise: noiseOf(params, problem, "mppi"),
+        mean: meanOf(problem),
+        correlation: params.correlation as number,
+        keepMeanSample: params.keepMeanSample as boolean,
+        ...(params.iterations !== undefined ? { iterations: params.iterations as number } : {}),
+        fill: params.fill as "repeat" | "zero" | "nominal",
+        bounds: problem.bounds,
+        seed: ctx.seed,
+      }),
+    );
+  },
+};
+
+/** The `cem` kind. */
+export const cemDefinition: OptimizerDefinition = {
+  kind: "cem",
+  description: "Cross-entropy method (Rubinstein 1999): elite fraction, mean and variance refit, γ = 1.",
+  params: {
+    ...samplingParams,
+    eliteFraction: { type: "number", above: 0, max: 1, default: 0.1, description: "elite fraction ρ" },
+    minStd: { type: "number", min: 0, default: 0.01, description: "floor on the refitted standard deviation" },
+    spreadFill: {
+      type: "string",
+      values: ["repeat", "initial", "reset"],
+      default: "reset",
+      description: "how the variance is carried to the next control step",
+    },
+  },
+  check: (params, problem) => checkNoise(params, problem, "cem"),
+  create(params, problem, ctx) {
+    return wrapController(
+      cem({
+        dynamics: problem.model,
+        cost: problem.cost,
+        horizon: params.horizon as number,
+        samples: params.samples as number,
+        eliteFraction: params.eliteFraction as number,
+        std: noiseOf(params, problem, "cem"),
+        minStd: params.minStd as number,
+        mean: meanOf(problem),
+        correlation: params.correlation as number,
+        keepMeanSample: params.keepMeanSample as boolean,
+        ...(params.iterations !== undefined ? { iterations: params.iterations as number } : {}),
+        fill: params.fill as "repeat" | "zero" | "nominal",
+        spreadFill: params.spreadFill as "repeat" | "initial" | "reset",
+        bounds: problem.bounds,
+        seed: ctx.seed,
+      }),
+    );
+  },
+};
+
+/** The `variant` kind: the generic controller from named parts. */
+export const variantDefinition: OptimizerDefinition = {
+  kind: "variant",
+  description:
+    "The generic controller composed from parts: Gaussian plan, a sample loss, KL step with step size γ, shift.",
+  params: {
+    ...samplingParams,
+    loss: {
+      type: "string",
+      values: ["exponential", "elite", "expected"],
+      default: "exponential",
+      description: "per-sample loss: exponential utility (λ), elite fraction (ρ), or expected cost",
+    },
+    temperature: { type: "number", above: 0, default: 1, description: "temperature λ (loss exponential)" },
+    eliteFraction: { type: "number", above: 0, max: 1, default: 0.1, description: "elite fraction ρ (loss elite)" },
+    stepSize: { type: "number", above: 0, max: 1, default: 1, description: "mirror step size γ ∈ (0, 1]" },
+    adaptCovariance: {
+      type: "boolean",
+      default: false,
+      description: "update the (diagonal) covariance by the mirror step too",
+    },
+    minStd: { type: "number", min: 0, default: 0.01, description: "floor on an adapted standard deviation" },
+    spreadFill: {
+      type: "string",
+      values: ["repeat", "initial", "reset"],
+      default: "initial",
+      description: "tail fill of the adapted variance after the shift",
+    },
+  },
+  check: (params, problem) => checkNoise(params, problem, "variant"),
+  create(params, problem, ctx) {
+    let loss: SampleLoss;
+    if (params.loss === "elite") loss = eliteFraction({ fraction: params.eliteFraction as number });
+    else if (params.loss === "expected") loss = expectedCost();
+    else loss = exponentialUtility({ temperature: params.temperature as number });
+    return wrapController(
+      createController({
+        name: "variant",
+        dynamics: problem.model,
+        cost: problem.cost,
+        horizon: params.horizon as number,
+        samples: params.samples as number,
+        plan: gaussianPlan({
+          mean: meanOf(problem),
+          std: noiseOf(params, problem, "variant"),
+          adaptVariance: params.adaptCovariance as boolean,
+          minStd: params.minStd as number,
+          correlation: params.correlation as number,
+          keepMeanSample: params.keepMeanSample as boolean,
+        }),
+        loss,
+        geometry: "kl",
+        stepSize: params.stepSize as number,
+        iterations: (params.iterations as number | undefined) ?? 1,
+        shift: shiftPlan({
+          fill: params.fill as "repeat" | "zero" | "nominal",
+          spreadFill: params.spreadFill as "repeat" | "initial" | "reset",
+        }),
+        bounds: problem.bounds,
+        seed: ctx.seed,
+      }),
+    );
+  },
+};
+
+/** The `lqr` kind: the library's LQR about the problem's equilibrium. */
+export const lqrDefinition: OptimizerDefinition = {
+  kind: "lqr",
+  description:
+    "LQR about the problem's equilibrium (the lqr preset): u = ū − K(x − x̄), K from the DARE, or K_0 of a finite-horizon Riccati recursion when a horizon is given.",
+  params: {
+    horizon: {
+      type: "integer",
+      min: 1,
+      description: "finite Riccati horizon (receding); default: infinite horizon (DARE gain)",
+    },
+  },
+  check(_params, problem) {
+    if (!problem.linearQuadratic)
+      throw new RecedeError("domain", "lqr", "problem", "a problem with linear-quadratic data", problem.id);
+  },
+  create(params, problem) {
+    const lq = problem.linearQuadratic;
+    if (!lq) throw new RecedeError("domain", "lqr", "problem", "a problem with linear-quadratic data", problem.id);
+    const n = lq.stateSize;
+    const m = lq.controlSize;
+    const mat = (data: Float64Array, rows: number, cols: number) => ({ data, rows, cols });
+    const controller = lqr({
+      a: mat(lq.a, n, n),
+      b: mat(lq.b, n, m),
+      q: mat(lq.q, n, n),
+      r: mat(lq.r, m, m),
+      qf: mat(lq.qf, n, n),
+      state: lq.state,
+      control: lq.control,
+      ...(params.horizon !== undefined ? { horizon: params.horizon as number } : {}),
+    });
+    // Angle components are regulated by their wrapped error: x' = x̄ + wrap(x − x̄).
+    const angles = problem.angleIndices ?? [];
+    const xw = new Float64Array(n);
+    return {
+      act(x) {
+        xw.set(x);
+        for (const i of angles) xw[i] = lq.state[i] + wrapAngle(x[i] - lq.state[i]);
+        return { control: controller.act(xw).control, samples: 0 };
+      },
+    };
+  },
+};
+
+/** Every MPC kind. */
+export function mpcOptimizerDefinitions(): OptimizerDefinition[] {
+  return [mppiDefinition, cemDefinition, variantDefinition, lqrDefinition];
+}

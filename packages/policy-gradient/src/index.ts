@@ -1,0 +1,73 @@
+/**
+ * @recede/policy-gradient — policy gradient as mirror descent (vanilla, natural, KL trust region)
+ * and imitation learning as online learning.
+ *
+ * @packageDocumentation
+ */
+
+export { EpisodeBatch } from "./environment/episodeBatch.js";
+export {
+  environmentFromProblem,
+  type Evaluation,
+  type InitialStateSampler,
+  type ProblemEnvironmentOptions,
+  RolloutEnvironment,
+  type RolloutEnvironmentOptions,
+  rolloutEnvironment,
+  type StepDecider,
+} from "./environment/environment.js";
+export { GaeEstimator, type GaeOptions, gae } from "./estimators/gae.js";
+export {
+  type GradientEstimator,
+  ReinforceEstimator,
+  type ReinforceOptions,
+  reinforce,
+  returnsToGo,
+} from "./estimators/reinforce.js";
+export { type ScoredSamples, surrogateLoss } from "./estimators/scoredSamples.js";
+export {
+  LinearValueFunction,
+  type LinearValueFunctionOptions,
+  linearValueFunction,
+  type ValueModel,
+} from "./estimators/valueFunction.js";
+export {
+  type LqrPolicyEvaluation,
+  LqrPolicyProblem,
+  type LqrPolicyProblemOptions,
+  type LqrUpdateMethod,
+  lqrPolicyProblem,
+} from "./lqr/exactLqrGradient.js";
+export { type PolicyActor, type PolicyActorOptions, policyActor } from "./policies/actor.js";
+export {
+  LinearGaussianPolicy,
+  type LinearGaussianPolicyOptions,
+  linearGaussianPolicy,
+} from "./policies/linearGaussian.js";
+export {
+  MlpGaussianPolicy,
+  type MlpGaussianPolicyOptions,
+  mlpGaussianPolicy,
+} from "./policies/mlpGaussian.js";
+export type { Actor, ParameterBlock, PolicyKind, StochasticPolicy } from "./policies/policy.js";
+export { SoftmaxPolicy, type SoftmaxPolicyOptions, softmaxPolicy } from "./policies/softmax.js";
+export {
+  type ConjugateGradientReport,
+  type ConjugateGradientScratch,
+  conjugateGradient,
+} from "./updates/conjugateGradient.js";
+export {
+  FisherGeometry,
+  type FisherGeometryOptions,
+  fisherGeometry,
+  type PreparableGeometry,
+} from "./updates/fisherGeometry.js";
+export {
+  type PolicyFeedback,
+  PolicyOptimizer,
+  type PolicyOptimizerOptions,
+  type PolicyOptimizerSnapshot,
+  type PolicyStepReport,
+  policyOptimizer,
+  type TrustRegionOptions,
+} from "./updates/policyOptimizer.js";

@@ -1,0 +1,91 @@
+/**
+ * Diagonal-Gaussian output head shared by the Gaussian policy families: N(μ, diag σ²) with
+ * σ_j = exp(θ[ls + j]) (learnable log-standard deviations).
+ *
+ * Formulas (MATH.md §5.1; Williams 1992 for the score of a Gaussian unit):
+ *   ln π = −½ Σ_j z_j² − Σ_j ln σ_j − (m/2) ln 2π,   z_j = (a_j − μ_j)/σ_j,
+ *   ∂ ln π/∂μ_j = z_j/σ_j,   ∂ ln π/∂ ln σ_j = z_j² − 1,
+ *   Fisher in (μ, ln σ): diag(1/σ²) ⊕ 2·I,
+ *   KL(N_o‖N_n) = Σ_j [ln(σ_n/σ_o) + (σ_o² + (μ_o − μ_n)²)/(2σ_n²) − ½].
+ *
+ * @module
+ */
+
+const HALF_LOG_2PI = 0.5 * Math.log(2 * Math.PI);
+
+/** ln N(a; μ, diag exp(2·logStd)). */
+export function gaussianLogProb(
+  m: number,
+  mu: Float64Array,
+  mo: number,
+  theta: Float64Array,
+  ls: number,
+  action: Float64Array,
+  ao: number,
+): number {
+  let s = 0;
+  for (let j = 0; j < m; j++) {
+    const l = theta[ls + j];
+    const z = (action[ao + j] - mu[mo + j]) * Math.exp(-l);
+    s += -0.5 * z * z - l - HALF_LOG_2PI;
+  }
+  return s;
+}
+
+/**
+ * dmu[j] ← w · ∂ln π/∂μ_j and out[ls + j] += w · (z_j² − 1). Returns ln π.
+ */
+export function gaussianScore(
+  m: number,
+  mu: Float64Array,
+  mo: number,
+  theta: Float64Array,
+  ls: number,
+  action: Float64Array,
+  ao: number,
+  weight: number,
+  dmu: Float64Array,
+  out: Float64Array,
+): number {
+  let s = 0;
+  for (let j = 0; j < m; j++) {
+    const l = theta[ls + j];
+    const inv = Math.exp(-l);
+    const z = (action[ao + j] - mu[mo + j]) * inv;
+    s += -0.5 * z * z - l - HALF_LOG_2PI;
+    dmu[j] = weight * z * inv;
+    out[ls + j] += weight * (z * z - 1);
+  }
+  return s;
+}
+
+/** KL(N(μo, σo²) ‖ N(μn, σn²)) for diagonal Gaussians with log-std blocks in θo, θn. */
+export function gaussianKl(
+  m: number,
+  muO: Float64Array,
+  muN: Float64Array,
+  thetaO: Float64Array,
+  thetaN: Float64Array,
+  ls: number,
+): number {
+  let s = 0;
+  for (let j = 0; j < m; j++) {
+    const lo = thetaO[ls + j];
+    const ln = thetaN[ls + j];
+    const d = muO[j] - muN[j];
+    s += ln - lo + (Math.exp(2 * (lo - ln)) + d * d * Math.exp(-2 * ln)) * 0.5 - 0.5;
+  }
+  return s;
+}
+
+/** Draw a ← μ + σ ⊙ ε with ε ∼ N(0, I) drawn into `action[ao..]` first. */
+export function gaussianPerturb(
+  m: number,
+  mu: Float64Array,
+  theta: Float64Array,
+  ls: number,
+  action: Float64Array,
+  ao: number,
+): void {
+  for (let j = 0; j < m; j++) action[ao + j] = mu[j] + Math.exp(theta[ls + j]) * action[ao + j];
+}

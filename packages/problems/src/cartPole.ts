@@ -1,0 +1,362 @@
+/**
+ * Cart-pole swing-up with the parameters of Barto, Sutton & Anderson (1983) and the frictionless
+ * equations of Florian (2007).
+ *
+ * @module
+ */
+import { type Dynamics, RecedeError, requireInteger, requirePositive } from "@recede/core";
+import { quadraticCost } from "./costs/quadraticCost.js";
+import { stateLimitPenalty } from "./costs/stateLimitPenalty.js";
+import { sumCosts } from "./costs/sumCosts.js";
+import { parseVector, parseWeight, square, type WeightInput } from "./internal/options.js";
+import { Rk4Jacobian, type VectorField } from "./internal/rk4.js";
+import { fmt, holdTest } from "./internal/success.js";
+import { type LinearQuadratic, type Problem, wrapAngle } from "./problem.js";
+
+/** Options of {@link cartPole}. */
+export interface CartPoleOptions {
+  /**
+   * Cart mass m_c (kg).
+   * @defaultValue 1.0 (Barto, Sutton & Anderson 1983)
+   */
+  readonly cartMass?: number;
+  /**
+   * Pole mass m_p (kg).
+   * @defaultValue 0.1 (Barto, Sutton & Anderson 1983)
+   */
+  readonly poleMass?: number;
+  /**
+   * Half pole length l (m): pivot to the pole's centre of mass (uniform rod).
+   * @defaultValue 0.5 (Barto, Sutton & Anderson 1983)
+   */
+  readonly halfLength?: number;
+  /**
+   * Gravity g (m/s²).
+   * @defaultValue 9.8 (Barto, Sutton & Anderson 1983)
+   */
+  readonly gravity?: number;
+  /**
+   * Force bound |F| ≤ forceLimit (N).
+   * @defaultValue 10 (the ±10 N of Barto, Sutton & Anderson 1983)
+   */
+  readonly forceLimit?: number;
+  /**
+   * Track half-length: the cart should stay within |x| ≤ trackLimit (m), enforced as a soft
+   * penalty in the cost and required by the success test.
+   * @defaultValue 2.4 (Barto, Sutton & Anderson 1983)
+   */
+  readonly trackLimit?: number;
+  /**
+   * Weight of the squared track violation in the cost.
+   * @defaultValue 1000
+   */
+  readonly trackWeight?: number;
+  /**
+   * Cost added per step while off the track.
+   * @defaultValue 100
+   */
+  readonly trackViolationCost?: number;
+  /**
+   * Control period Δt (s); one RK4 step per period (the original used Euler with τ = 0.02 s).
+   * @defaultValue 0.02
+   */
+  readonly dt?: number;
+  /**
+   * State weight Q on (x, ẋ, wrap(θ), θ̇).
+   * @defaultValue [1, 0.1, 10, 0.1]
+   */
+  readonly q?: WeightInput;
+  /**
+   * Force weight R.
+   * @defaultValue 0.001
+   */
+  readonly r?: WeightInput;
+  /**
+   * Terminal weight Qf.
+   * @defaultValue [10, 1, 100, 1]
+   */
+  readonly qf?: WeightInput;
+  /**
+   * Start state (x, ẋ, θ, θ̇).
+   * @defaultValue [0, 0, π, 0] (pole hanging, at rest)
+   */
+  readonly initialState?: ArrayLike<number>;
+  /**
+   * Suggested MPC horizon H (steps).
+   * @defaultValue 50
+   */
+  readonly horizon?: number;
+  /**
+   * Episode length (steps).
+   * @defaultValue 250
+   */
+  readonly episodeLength?: number;
+  /**
+   * Success: |wrap(θ)| ≤ angleTolerance (rad) …
+   * @defaultValue 0.2
+   */
+  readonly angleTolerance?: number;
+  /**
+   * … |θ̇| ≤ rateTolerance (rad/s) and |x| ≤ trackLimit …
+   * @defaultValue 1
+   */
+  readonly rateTolerance?: number;
+  /**
+   * … for the last holdSteps states.
+   * @defaultValue 50
+   */
+  readonly holdSteps?: number;
+}
+
+/** Physical parameters of a {@link CartPoleProblem}. */
+export interface CartPoleParameters {
+  readonly cartMass: number;
+  readonly poleMass: number;
+  readonly halfLength: number;
+  readonly gravity: number;
+  readonly forceLimit: number;
+  readonly trackLimit: number;
+}
+
+/** The cart-pole problem with its parameters and the continuous-time accelerations. */
+export interface CartPoleProblem extends Problem {
+  /** The physical parameters in use. */
+  readonly parameters: CartPoleParameters;
+  /**
+   * Continuous-time accelerations at state x[o..o+3] under force F: out[oo] ← ẍ, out[oo+1] ← θ̈.
+   */
+  accelerations(x: Float64Array, o: number, force: number, out: Float64Array, oo: number): void;
+}
+
+/**
+ * Cart-pole (pole on a cart on a track) swing-up from hanging to upright.
+ *
+ * Model: frictionless cart-pole with a uniform rod (I = m_p l²/3 about its centre), in the form of
+ * R. V. Florian, "Correct Equations for the Dynamics of the Cart-Pole System", Center for Cognitive
+ * and Neural Studies, Romania, 2007, with μ_c = μ_p = 0 (MATH.md §7.1):
+ *   θ̈ = [g sin θ + cos θ (−F − m_p l θ̇² sin θ)/M] / [l (4/3 − m_p cos²θ / M)],
+ *   ẍ = [F + m_p l (θ̇² sin θ − θ̈ cos θ)] / M,     M = m_c + m_p,
+ * θ measured from upright, positive towards +x. Parameters of A. G. Barto, R. S. Sutton,
+ * C. W. Anderson, "Neuronlike Adaptive Elements That Can Solve Difficult Learning Control Problems",
+ * IEEE Trans. SMC 13(5), 1983: m_c = 1 kg, m_p = 0.1 kg, l = 0.5 m, g = 9.8 m/s², |F| ≤ 10 N,
+ * |x| ≤ 2.4 m. Integrated with one classical RK4 step per Δt. The track limit is a soft penalty in
+ * the cost (weight `trackWeight` on the squared excess plus `trackViolationCost` per step off the
+ * track) and a hard requirement of the success test.
+ *
+ * Success: |wrap(θ)| ≤ `angleTolerance`, |θ̇| ≤ `rateTolerance` and |x| ≤ `trackLimit` for the last
+ * `holdSteps` states.
+ *
+ * State (x, ẋ, θ, θ̇), control (F).
+ */
+export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
+  const fn = "cartPole";
+  const mc = requirePositive(fn, "cartMass", options.cartMass ?? 1.0);
+  const mp = requirePositive(fn, "poleMass", options.poleMass ?? 0.1);
+  const l = requirePositive(fn, "halfLength", options.halfLength ?? 0.5);
+  const g = requirePositive(fn, "gravity", options.gravity ?? 9.8);
+  const forceLimit = requirePositive(fn, "forceLimit", options.forceLimit ?? 10);
+  const trackLimit = requirePositive(fn, "trackLimit", options.trackLimit ?? 2.4);
+  const trackWeight = options.trackWeight ?? 1000;
+  const trackFlag = options.trackViolationCost ?? 100;
+  for (const [arg, v] of [
+    ["trackWeight", trackWeight],
+    ["trackViolationCost", trackFlag],
+  ] as const) {
+    if (!Number.isFinite(v) || v < 0) throw new RecedeError("range", fn, arg, ">= 0", v);
+  }
+  const dt = requirePositive(fn, "dt", options.dt ?? 0.02);
+  const q = parseWeight(fn, "q", options.q ?? [1, 0.1, 10, 0.1], 4, "psd");
+  const r = parseWeight(fn, "r", options.r ?? 0.001, 1, "pd");
+  const qf = parseWeight(fn, "qf", options.qf ?? [10, 1, 100, 1], 4, "psd");
+  const x0 = parseVector(fn, "initialState", options.initialState, 4, [0, 0, Math.PI, 0]);
+  const horizon = requireInteger(fn, "horizon", options.horizon ?? 50, 1);
+  const episodeLength = requireInteger(fn, "episodeLength", options.episodeLength ?? 250, 1);
+  const angTol = requirePositive(fn, "angleTolerance", options.angleTolerance ?? 0.2);
+  const rateTol = requirePositive(fn, "rateTolerance", options.rateTolerance ?? 1);
+  const hold = requireInteger(fn, "holdSteps", options.holdSteps ?? 50, 1);
+
+  const M = mc + mp;
+  const mpl = mp * l;
+  const acc = new Float64Array(2);
+  /** acc[0] ← ẍ, acc[1] ← θ̈ (frictionless Florian form). */
+  const accel = (th: number, w: number, F: number): void => {
+    const s = Math.sin(th);
+    const c = Math.cos(th);
+    const thdd = (g * s + (c * (-F - mpl * w * w * s)) / M) / (l * (4 / 3 - (mp * c * c) / M));
+    acc[0] = (F + mpl * (w * w * s - thdd * c)) / M;
+    acc[1] = thdd;
+  };
+
+  const field: VectorField = {
+    n: 4,
+    m: 1,
+    deriv(x, xo, u, uo, out, oo): void {
+      accel(x[xo + 2], x[xo + 3], u[uo]);
+      out[oo] = x[xo + 1];
+      out[oo + 1] = acc[0];
+      out[oo + 2] = x[xo + 3];
+      out[oo + 3] = acc[1];
+    },
+    partials(x, xo, u, uo, fx, fu): void {
+      const th = x[xo + 2];
+      const w = x[xo + 3];
+      const F = u[uo];
+      const s = Math.sin(th);
+      const c = Math.cos(th);
+      const N = g * s + (c * (-F - mpl * w * w * s)) / M;
+      const D = l * (4 / 3 - (mp * c * c) / M);
+      const thdd = N / D;
+      const Nth = g * c + (s * F + mpl * w * w * (s * s - c * c)) / M;
+      const Dth = (l * 2 * mp * c * s) / M;
+      const tTh = (Nth * D - N * Dth) / (D * D);
+      const tW = (-2 * mpl * w * s * c) / M / D;
+      const tF = -c / M / D;
+      fx.fill(0);
+      fx[1] = 1; // ∂ẋ/∂ẋ
+      fx[2 * 4 + 3] = 1; // ∂θ̇/∂θ̇
+      fx[1 * 4 + 2] = (mpl * (w * w * c - tTh * c + thdd * s)) / M;
+      fx[1 * 4 + 3] = (mpl * (2 * w * s - tW * c)) / M;
+      fx[3 * 4 + 2] = tTh;
+      fx[3 * 4 + 3] = tW;
+      fu[0] = 0;
+      fu[1] = (1 - mpl * c * tF) / M;
+      fu[2] = 0;
+      fu[3] = tF;
+    },
+  };
+  const lin = new Rk4Jacobian(field, dt);
+  const h = dt;
+  const dynamics: Dynamics = {
+    stateSize: 4,
+    controlSize: 1,
+    step(x, xo, u, uo, count, _t): void {
+      for (let k = 0; k < count; k++) {
+        const b = xo + 4 * k;
+        const F = u[uo + k];
+        const p = x[b];
+        const v = x[b + 1];
+        const th = x[b + 2];
+        const w = x[b + 3];
+        // classical RK4 with the state in locals
+        accel(th, w, F);
+        const k1p = v;
+        const k1v = acc[0];
+        const k1t = w;
+        const k1w = acc[1];
+        accel(th + 0.5 * h * k1t, w + 0.5 * h * k1w, F);
+        const k2p = v + 0.5 * h * k1v;
+        const k2v = acc[0];
+        const k2t = w + 0.5 * h * k1w;
+        const k2w = acc[1];
+        accel(th + 0.5 * h * k2t, w + 0.5 * h * k2w, F);
+        const k3p = v + 0.5 * h * k2v;
+        const k3v = acc[0];
+        const k3t = w + 0.5 * h * k2w;
+        const k3w = acc[1];
+        accel(th + h * k3t, w + h * k3w, F);
+        const k4p = v + h * k3v;
+        const k4v = acc[0];
+        const k4t = w + h * k3w;
+        const k4w = acc[1];
+        const c = h / 6;
+        x[b] = p + c * (k1p + 2 * k2p + 2 * k3p + k4p);
+        x[b + 1] = v + c * (k1v + 2 * k2v + 2 * k3v + k4v);
+        x[b + 2] = th + c * (k1t + 2 * k2t + 2 * k3t + k4t);
+        x[b + 3] = w + c * (k1w + 2 * k2w + 2 * k3w + k4w);
+      }
+    },
+    jacobians(x, u, _t, a, b): void {
+      lin.jacobians(x, u, a, b);
+    },
+  };
+
+  const goal = new Float64Array(4);
+  const cost = sumCosts(
+    quadraticCost({
+      stateSize: 4,
+      controlSize: 1,
+      q: square(q, 4),
+      r: square(r, 1),
+      qf: square(qf, 4),
+      angleIndices: [2],
+    }),
+    stateLimitPenalty({
+      stateSize: 4,
+      controlSize: 1,
+      limits: [
+        {
+          index: 0,
+          lower: -trackLimit,
+          upper: trackLimit,
+          weight: trackWeight,
+          violationCost: trackFlag,
+        },
+      ],
+    }),
+  );
+
+  const a = new Float64Array(16);
+  const b = new Float64Array(4);
+  lin.jacobians(goal, new Float64Array(1), a, b);
+  const ca = new Float64Array(16);
+  const cb = new Float64Array(4);
+  field.partials(goal, 0, new Float64Array(1), 0, ca, cb);
+  const lq: LinearQuadratic = {
+    stateSize: 4,
+    controlSize: 1,
+    a,
+    b,
+    q: new Float64Array(q),
+    r: new Float64Array(r),
+    qf: new Float64Array(qf),
+    state: new Float64Array(4),
+    control: new Float64Array(1),
+    continuousA: ca,
+    continuousB: cb,
+    exact: false,
+  };
+  const criterion = `|θ| ≤ ${angTol} rad, |θ̇| ≤ ${rateTol} rad/s and |x| ≤ ${trackLimit} m for the last ${hold} states`;
+  const assess = (states: Float64Array, count?: number) =>
+    holdTest(`${fn}.assess`, states, 4, count, hold, criterion, (x, o) => {
+      const e = Math.abs(wrapAngle(x[o + 2]));
+      if (!(e <= angTol)) return `|θ| = ${fmt(e)} rad > ${angTol}`;
+      const w = Math.abs(x[o + 3]);
+      if (!(w <= rateTol)) return `|θ̇| = ${fmt(w)} rad/s > ${rateTol}`;
+      const p = Math.abs(x[o]);
+      if (!(p <= trackLimit)) return `|x| = ${fmt(p)} m > ${trackLimit}`;
+      return "";
+    });
+  return {
+    name: "cart-pole",
+    description:
+      "Cart-pole on a finite track: swing the pole up from hanging and balance it upright near the track centre, with a bounded force.",
+    source:
+      "A. G. Barto, R. S. Sutton, C. W. Anderson, Neuronlike Adaptive Elements That Can Solve Difficult Learning Control Problems, IEEE Trans. SMC 13(5), 1983; equations: R. V. Florian, Correct Equations for the Dynamics of the Cart-Pole System, 2007",
+    stateSize: 4,
+    controlSize: 1,
+    stateNames: ["x", "ẋ", "θ", "θ̇"],
+    controlNames: ["F"],
+    angleIndices: [2],
+    dt,
+    dynamics,
+    cost,
+    bounds: {
+      lower: new Float64Array([-forceLimit]),
+      upper: new Float64Array([forceLimit]),
+    },
+    goal,
+    goalControl: new Float64Array(1),
+    horizon,
+    episodeLength,
+    linearQuadratic: lq,
+    parameters: { cartMass: mc, poleMass: mp, halfLength: l, gravity: g, forceLimit, trackLimit },
+    initialState: () => new Float64Array(x0),
+    success: (states, count) => assess(states, count).success,
+    assess,
+    accelerations(x, o, force, out, oo): void {
+      accel(x[o + 2], x[o + 3], force);
+      out[oo] = acc[0];
+      out[oo + 1] = acc[1];
+    },
+  };
+}

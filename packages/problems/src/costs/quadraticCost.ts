@@ -1,0 +1,271 @@
+/**
+ * Batched quadratic tracking cost, with an optional time-varying reference trajectory.
+ *
+ * @module
+ */
+import { type CostModel, RecedeError, requireInteger } from "@recede/core";
+import { parseWeight, type WeightInput } from "../internal/options.js";
+import { wrapAngle } from "../problem.js";
+
+/** Options of {@link quadraticCost}. */
+export interface QuadraticCostOptions {
+  /** State size n. */
+  readonly stateSize: number;
+  /** Control size m. */
+  readonly controlSize: number;
+  /** Running state weight Q (n×n, symmetric PSD): scalar s = s·I, a diagonal, or a matrix. */
+  readonly q: WeightInput;
+  /** Running control weight R (m×m, symmetric PSD; PD for LQR). */
+  readonly r: WeightInput;
+  /**
+   * Terminal state weight Qf.
+   * @defaultValue the running weight Q
+   */
+  readonly qf?: WeightInput;
+  /**
+   * State reference r: one state (length n) or a trajectory of rows r_0, r_1, … (length rows·n,
+   * row-major). Row min(start + t, rows − 1) is used at horizon step t.
+   * @defaultValue the origin
+   */
+  readonly reference?: ArrayLike<number>;
+  /**
+   * Control reference ū: one control (length m) or a trajectory (rows·m), indexed like `reference`.
+   * @defaultValue zero
+   */
+  readonly controlReference?: ArrayLike<number>;
+  /**
+   * Horizon H used to pick the terminal reference row min(start + H, rows − 1). When omitted the
+   * terminal cost uses the last reference row.
+   * @defaultValue undefined (last row)
+   */
+  readonly horizon?: number;
+  /**
+   * State components that are angles: their errors x_i − r_i are wrapped into (−π, π].
+   * @defaultValue []
+   */
+  readonly angleIndices?: readonly number[];
+}
+
+/**
+ * A quadratic cost that also exposes its weights and lets the caller move along the reference.
+ */
+export interface QuadraticCost extends CostModel {
+  /** Q, row-major n×n (a copy owned by the cost; do not mutate). */
+  readonly q: Float64Array;
+  /** R, row-major m×m. */
+  readonly r: Float64Array;
+  /** Qf, row-major n×n. */
+  readonly qf: Float64Array;
+  /** Index of the reference row used at horizon step t = 0. */
+  readonly start: number;
+  /**
+   * Move the reference window: horizon step t then uses row min(start + t, rows − 1). A receding-
+   * horizon tracker calls `setStart(k)` before planning at episode step k.
+   */
+  setStart(start: number): void;
+}
+
+/**
+ * Batched quadratic tracking cost
+ *   c(x, u, t) = (x − r_{s+t})ᵀ Q (x − r_{s+t}) + (u − ū_{s+t})ᵀ R (u − ū_{s+t}),
+ *   c_H(x) = (x − r_{s+H})ᵀ Qf (x − r_{s+H}),
+ * with reference rows clamped to the last one, s = `start` (see {@link QuadraticCost.setStart}),
+ * and angle components of x − r wrapped into (−π, π]. No factor ½ (MATH.md §4.1 convention, the
+ * one the Riccati solvers use). Symbols ↔ options: Q ↔ `q`, R ↔ `r`, Qf ↔ `qf`, r ↔ `reference`,
+ * ū ↔ `controlReference`, H ↔ `horizon`.
+ *
+ * Diagonal weights take a faster path; nothing is allocated per call. Source: the standard LQ
+ * tracking cost (B. D. O. Anderson, J. B. Moore, "Optimal Control: Linear Quadratic Methods", 1990).
+ *
+ * @example
+ * ```ts
+ * const cost = quadraticCost({ stateSize: 2, controlSize: 1, q: [1, 0.1], r: 0.01 });
+ * const out = new Float64Array(1);
+ * cost.running(new Float64Array([1, 0]), 0, new Float64Array([2]), 0, 1, 0, out, 0); // out[0] = 1.04
+ * ```
+ */
+export function quadraticCost(options: QuadraticCostOptions): QuadraticCost {
+  const fn = "quadraticCost";
+  const n = requireInteger(fn, "stateSize", options.stateSize, 1);
+  const m = requireInteger(fn, "controlSize", options.controlSize, 0);
+  const q = parseWeight(fn, "q", options.q, n, "psd");
+  const r = parseWeight(fn, "r", options.r, m, "psd");
+  const qf =
+    options.qf === undefined ? new Float64Array(q) : parseWeight(fn, "qf", options.qf, n, "psd");
+  const ref = parseTrajectory(fn, "reference", options.reference, n);
+  const uref = parseTrajectory(fn, "controlReference", options.controlReference, m);
+  const horizon =
+    options.horizon === undefined ? -1 : requireInteger(fn, "horizon", options.horizon, 1);
+  const isAngle = new Uint8Array(n);
+  for (const i of options.angleIndices ?? []) {
+    if (!Number.isInteger(i) || i < 0 || i >= n) {
+      throw new RecedeError("range", fn, "angleIndices", `integers in [0, ${n - 1}]`, i);
+    }
+    isAngle[i] = 1;
+  }
+  return new QuadraticCostImpl(n, m, q, r, qf, ref, uref, horizon, isAngle);
+}
+
+function parseTrajectory(
+  fn: string,
+  arg: string,
+  v: ArrayLike<number> | undefined,
+  width: number,
+): Float64Array {
+  if (v === undefined) return new Float64Array(Math.max(width, 1));
+  if (v === null || typeof v !== "object" || typeof v.length !== "number") {
+    throw new RecedeError("type", fn, arg, "an array of numbers", v);
+  }
+  if (width === 0) return new Float64Array(1);
+  if (v.length === 0 || v.length % width !== 0) {
+    throw new RecedeError(
+      "dimension",
+      fn,
+      arg,
+      `a length that is a positive multiple of ${width}`,
+      v,
+    );
+  }
+  const out = new Float64Array(v.length);
+  for (let i = 0; i < v.length; i++) {
+    if (typeof v[i] !== "number" || !Number.isFinite(v[i])) {
+      throw new RecedeError("non-finite", fn, `${arg}[${i}]`, "finite", v[i]);
+    }
+    out[i] = v[i];
+  }
+  return out;
+}
+
+function isDiagonal(n: number, w: Float64Array): boolean {
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) if (i !== j && w[i * n + j] !== 0) return false;
+  }
+  return true;
+}
+
+class QuadraticCostImpl implements QuadraticCost {
+  readonly stateSize: number;
+  readonly controlSize: number;
+  readonly q: Float64Array;
+  readonly r: Float64Array;
+  readonly qf: Float64Array;
+  start = 0;
+  private readonly ref: Float64Array;
+  private readonly refRows: number;
+  private readonly uref: Float64Array;
+  private readonly urefRows: number;
+  private readonly horizon: number;
+  private readonly isAngle: Uint8Array;
+  private readonly hasAngle: boolean;
+  private readonly qDiag: boolean;
+  private readonly rDiag: boolean;
+  private readonly qfDiag: boolean;
+  private readonly dx: Float64Array;
+  private readonly du: Float64Array;
+
+  constructor(
+    n: number,
+    m: number,
+    q: Float64Array,
+    r: Float64Array,
+    qf: Float64Array,
+    ref: Float64Array,
+    uref: Float64Array,
+    horizon: number,
+    isAngle: Uint8Array,
+  ) {
+    this.stateSize = n;
+    this.controlSize = m;
+    this.q = q;
+    this.r = r;
+    this.qf = qf;
+    this.ref = ref;
+    this.refRows = ref.length / n;
+    this.uref = uref;
+    this.urefRows = m === 0 ? 1 : uref.length / m;
+    this.horizon = horizon;
+    this.isAngle = isAngle;
+    this.hasAngle = isAngle.some((v) => v === 1);
+    this.qDiag = isDiagonal(n, q);
+    this.rDiag = isDiagonal(m, r);
+    this.qfDiag = isDiagonal(n, qf);
+    this.dx = new Float64Array(n);
+    this.du = new Float64Array(Math.max(m, 1));
+  }
+
+  setStart(start: number): void {
+    this.start = requireInteger("QuadraticCost.setStart", "start", start, 0);
+  }
+
+  running(
+    x: Float64Array,
+    xo: number,
+    u: Float64Array,
+    uo: number,
+    count: number,
+    t: number,
+    out: Float64Array,
+    oo: number,
+  ): void {
+    const n = this.stateSize;
+    const m = this.controlSize;
+    const rb = Math.min(this.start + t, this.refRows - 1) * n;
+    const ub = Math.min(this.start + t, this.urefRows - 1) * m;
+    for (let k = 0; k < count; k++) {
+      const c =
+        this.form(n, this.q, this.qDiag, x, xo + k * n, this.ref, rb, this.dx, this.hasAngle) +
+        this.form(m, this.r, this.rDiag, u, uo + k * m, this.uref, ub, this.du, false);
+      out[oo + k] += c;
+    }
+  }
+
+  terminal(x: Float64Array, xo: number, count: number, out: Float64Array, oo: number): void {
+    const n = this.stateSize;
+    const row =
+      this.horizon < 0 ? this.refRows - 1 : Math.min(this.start + this.horizon, this.refRows - 1);
+    for (let k = 0; k < count; k++) {
+      out[oo + k] += this.form(
+        n,
+        this.qf,
+        this.qfDiag,
+        x,
+        xo + k * n,
+        this.ref,
+        row * n,
+        this.dx,
+        this.hasAngle,
+      );
+    }
+  }
+
+  /** (v − ref)ᵀ W (v − ref) for one sample. */
+  private form(
+    d: number,
+    w: Float64Array,
+    diag: boolean,
+    v: Float64Array,
+    vo: number,
+    ref: Float64Array,
+    ro: number,
+    e: Float64Array,
+    wrap: boolean,
+  ): number {
+    if (d === 0) return 0;
+    for (let i = 0; i < d; i++) {
+      let di = v[vo + i] - ref[ro + i];
+      if (wrap && this.isAngle[i] === 1) di = wrapAngle(di);
+      e[i] = di;
+    }
+    let s = 0;
+    if (diag) {
+      for (let i = 0; i < d; i++) s += w[i * d + i] * e[i] * e[i];
+      return s;
+    }
+    for (let i = 0; i < d; i++) {
+      let row = 0;
+      for (let j = 0; j < d; j++) row += w[i * d + j] * e[j];
+      s += e[i] * row;
+    }
+    return s;
+  }
+}

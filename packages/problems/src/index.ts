@@ -1,0 +1,48 @@
+/**
+ * @recede/problems — reference control problems with batched dynamics, costs, bounds, start states
+ * and success tests, each with its published source: double integrator, pendulum swing-up,
+ * cart-pole swing-up (and planar quadrotor, kinematic bicycle). Also the batched cost atoms the
+ * controllers reuse (quadratic tracking cost, soft state limits, sums).
+ *
+ * @packageDocumentation
+ */
+
+export {
+  type CartPoleOptions,
+  type CartPoleParameters,
+  type CartPoleProblem,
+  cartPole,
+} from "./cartPole.js";
+export {
+  type QuadraticCost,
+  type QuadraticCostOptions,
+  quadraticCost,
+} from "./costs/quadraticCost.js";
+export {
+  type StateLimit,
+  type StateLimitPenaltyOptions,
+  stateLimitPenalty,
+} from "./costs/stateLimitPenalty.js";
+export { sumCosts } from "./costs/sumCosts.js";
+export { type DoubleIntegratorOptions, doubleIntegrator } from "./doubleIntegrator.js";
+export type { WeightInput } from "./internal/options.js";
+export {
+  type PendulumOptions,
+  type PendulumParameters,
+  type PendulumProblem,
+  pendulum,
+} from "./pendulum.js";
+export {
+  type LinearQuadratic,
+  type Problem,
+  type SuccessReport,
+  wrapAngle,
+} from "./problem.js";
+export {
+  getProblem,
+  type ProblemFactory,
+  type ProblemName,
+  type ProblemOptionsByName,
+  problemNames,
+  problems,
+} from "./registry.js";

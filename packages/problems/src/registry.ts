@@ -1,0 +1,56 @@
+/**
+ * Registry of the reference problems by name, for benchmark harnesses and command lines.
+ *
+ * @module
+ */
+import { RecedeError } from "@recede/core";
+import { type CartPoleOptions, cartPole } from "./cartPole.js";
+import { type DoubleIntegratorOptions, doubleIntegrator } from "./doubleIntegrator.js";
+import { type PendulumOptions, pendulum } from "./pendulum.js";
+import type { Problem } from "./problem.js";
+
+/** Options accepted by each registered problem. */
+export interface ProblemOptionsByName {
+  "double-integrator": DoubleIntegratorOptions;
+  pendulum: PendulumOptions;
+  "cart-pole": CartPoleOptions;
+}
+
+/** Name of a registered problem. */
+export type ProblemName = keyof ProblemOptionsByName;
+
+/** A problem factory: options in, fresh {@link Problem} out. */
+export type ProblemFactory<O> = (options?: O) => Problem;
+
+/** Every registered problem factory, by name. */
+export const problems: { readonly [K in ProblemName]: ProblemFactory<ProblemOptionsByName[K]> } =
+  Object.freeze({
+    "double-integrator": doubleIntegrator,
+    pendulum,
+    "cart-pole": cartPole,
+  });
+
+/** The registered names, in a stable order. */
+export const problemNames: readonly ProblemName[] = Object.freeze(
+  Object.keys(problems) as ProblemName[],
+);
+
+/**
+ * Build a registered problem by name. Throws a typed error naming the known problems when `name`
+ * is not one of them.
+ *
+ * @example
+ * ```ts
+ * const p = getProblem("cart-pole", { forceLimit: 20 });
+ * ```
+ */
+export function getProblem<K extends ProblemName>(
+  name: K,
+  options?: ProblemOptionsByName[K],
+): Problem {
+  if (typeof name !== "string" || !Object.hasOwn(problems, name)) {
+    throw new RecedeError("range", "getProblem", "name", `one of ${problemNames.join(", ")}`, name);
+  }
+  const factory = problems[name] as ProblemFactory<ProblemOptionsByName[K]>;
+  return factory(options);
+}

@@ -1,0 +1,283 @@
+// Streaming summaries (history "summary", O(1) memory in T) equal the full-history computation
+// done here from scratch: plain sums over the stored rounds, brute force over the box's 2^d
+// vertices (a linear function attains its minimum over a polytope at a vertex — R. T. Rockafellar,
+// "Convex Analysis", 1970, Cor. 32.3.2), and brute force over every window for adaptive regret.
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { boxDomain } from "./domain.js";
+import { summaryToJson } from "./exportSeries.js";
+import { linearLoss, quadraticLoss } from "./losses.js";
+import { createRegretTracker, type RegretTrackerOptions } from "./tracker.js";
+
+interface Gen {
+  d: number;
+  w: number;
+  lo: number[];
+  width: number[];
+  experts: number[][];
+  rounds: { x: number[]; g: number[]; c: number; u: number[] }[];
+}
+
+const genArb = fc.integer({ min: 1, max: 3 }).chain((d) => {
+  const vec = (min: number, max: number) =>
+    fc.array(fc.double({ min, max, noNaN: true }), { minLength: d, maxLength: d });
+  return fc.record({
+    d: fc.constant(d),
+    w: fc.integer({ min: 1, max: 12 }),
+    lo: vec(-2, 0),
+    width: vec(0.1, 3),
+    experts: fc.array(vec(-1, 1), { minLength: 1, maxLength: 4 }),
+    rounds: fc.array(
+      fc.record({ x: vec(-2, 3), g: vec(-5, 5), c: fc.double({ min: -3, max: 3, noNaN: true }), u: vec(-1, 1) }),
+      { minLength: 1, maxLength: 50 },
+    ),
+  });
+});
+
+function vertexMin(gamma: number[], lo: number[], hi: number[]): number {
+  const d = gamma.length;
+  let best = Number.POSITIVE_INFINITY;
+  for (let mask = 0; mask < 1 << d; mask++) {
+    let v = 0;
+    for (let i = 0; i < d; i++) v += gamma[i] * ((mask >> i) & 1 ? hi[i] : lo[i]);
+    best = Math.min(best, v);
+  }
+  return best;
+}
+
+const dot = (a: ArrayLike<number>, b: ArrayLike<number>): number => {
+  let s = 0;
+  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
+  return s;
+};
+
+/** Window [s, e) regret of both kinds, from scratch. */
+function windowRegret(g: Gen, hi: number[], s: number, e: number): [number, number] {
+  const gamma = new Array(g.d).fill(0);
+  let played = 0;
+  let L = 0;
+  const E = new Array(g.experts.length).fill(0);
+  for (let t = s; t < e; t++) {
+    const r = g.rounds[t];
+    for (let i = 0; i < g.d; i++) gamma[i] += r.g[i];
+    played += dot(r.g, r.x);
+    L += dot(r.g, r.x) + r.c;
+    g.experts.forEach((ex, j) => {
+      E[j] += dot(r.g, ex) + r.c;
+    });
+  }
+  return [played - vertexMin(gamma, g.lo, hi), L - Math.min(...E)];
+}
+
+function options(g: Gen, history: "summary" | "full" | "window"): RegretTrackerOptions {
+  const hi = g.lo.map((l, i) => l + g.width[i]);
+  return {
+    dimension: g.d,
+    domain: boxDomain(Float64Array.from(g.lo), Float64Array.from(hi)),
+    experts: g.experts.map((e) => Float64Array.from(e)),
+    comparator: (t, _lo, out) => {
+      out.set(g.rounds[t - 1].u);
+      return out;
+    },
+    dynamics: (_t, u, out) => {
+      for (let i = 0; i < u.length; i++) out[i] = 0.5 * u[i];
+      return out;
+    },
+    adaptiveWindow: g.w,
+    history,
+    window: 5,
+  };
+}
+
+describe("streaming summaries equal the full-history computation", () => {
+  it("linear, experts, dynamic, path lengths and adaptive regret", () => {
+    fc.assert(
+      fc.property(genArb, (g) => {
+        const hi = g.lo.map((l, i) => l + g.width[i]);
+        const tracker = createRegretTracker(options(g, "summary"));
+        for (const r of g.rounds) {
+          tracker.record({ decision: Float64Array.from(r.x), lossObject: linearLoss(Float64Array.from(r.g), r.c) });
+        }
+        const s = tracker.summary();
+        const T = g.rounds.length;
+        const tol = (v: number) => 1e-10 * (1 + Math.abs(v)) * (1 + T);
+
+        // Full-history recomputation.
+        const [linR, expR] = windowRegret(g, hi, 0, T);
+        let L = 0;
+        let U = 0;
+        let P = 0;
+        let V = 0;
+        for (let t = 0; t < T; t++) {
+          const r = g.rounds[t];
+          L += dot(r.g, r.x) + r.c;
+          U += dot(r.g, r.u) + r.c;
+          if (t > 0) {
+            const prev = g.rounds[t - 1].u;
+            P += Math.hypot(...r.u.map((v, i) => v - prev[i]));
+            V += Math.hypot(...r.u.map((v, i) => v - 0.5 * prev[i]));
+          }
+        }
+        expect(s.rounds).toBe(T);
+        expect(Math.abs(s.cumulativeLoss - L)).toBeLessThanOrEqual(tol(L));
+        expect(Math.abs((s.linear?.regret ?? Number.NaN) - linR)).toBeLessThanOrEqual(tol(linR));
+        expect(Math.abs((s.experts?.regret ?? Number.NaN) - expR)).toBeLessThanOrEqual(tol(expR));
+        expect(Math.abs((s.dynamic?.regret ?? Number.NaN) - (L - U))).toBeLessThanOrEqual(tol(L - U));
+        expect(Math.abs((s.dynamic?.pathLength ?? Number.NaN) - P)).toBeLessThanOrEqual(tol(P));
+        expect(Math.abs((s.dynamic?.phiPathLength ?? Number.NaN) - V)).toBeLessThanOrEqual(tol(V));
+
+        // Adaptive regret by brute force over every window of length w (or [1, T] when T < w).
+        let aLin = Number.NEGATIVE_INFINITY;
+        let aExp = Number.NEGATIVE_INFINITY;
+        let sLin = 1;
+        if (T < g.w) [aLin, aExp] = windowRegret(g, hi, 0, T);
+        else {
+          for (let st = 0; st + g.w <= T; st++) {
+            const [a, b] = windowRegret(g, hi, st, st + g.w);
+            if (a > aLin) {
+              aLin = a;
+              sLin = st + 1;
+            }
+            aExp = Math.max(aExp, b);
+          }
+        }
+        expect(s.adaptive?.window).toBe(g.w);
+        expect(Math.abs((s.adaptive?.linear?.regret ?? Number.NaN) - aLin)).toBeLessThanOrEqual(tol(aLin));
+        expect(Math.abs((s.adaptive?.experts?.regret ?? Number.NaN) - aExp)).toBeLessThanOrEqual(tol(aExp));
+        // The reported start attains the maximum (ties may pick another start of equal value).
+        const st = s.adaptive?.linear?.start ?? 0;
+        const [atStart] = T < g.w ? [aLin] : windowRegret(g, hi, st - 1, st - 1 + g.w);
+        expect(Math.abs(atStart - aLin)).toBeLessThanOrEqual(tol(aLin));
+        void sLin;
+      }),
+      { numRuns: 150, seed: 2024 },
+    );
+  });
+
+  it("summary, window and full histories give identical summaries; the full series ends at them", () => {
+    fc.assert(
+      fc.property(genArb, (g) => {
+        const trackers = (["summary", "window", "full"] as const).map((h) => createRegretTracker(options(g, h)));
+        for (const r of g.rounds) {
+          const input = { decision: Float64Array.from(r.x), lossObject: linearLoss(Float64Array.from(r.g), r.c) };
+          for (const t of trackers) t.record(input);
+        }
+        const json = trackers.map((t) => summaryToJson(t.summary()));
+        expect(json[1]).toBe(json[0]);
+        expect(json[2]).toBe(json[0]);
+        const s = trackers[2].summary();
+        const series = trackers[2].series();
+        const last = series.length - 1;
+        expect(series.length).toBe(g.rounds.length);
+        expect(trackers[1].retainedRows).toBe(Math.min(5, g.rounds.length));
+        expect(series.columns.linearRegret[last]).toBe(s.linear?.regret);
+        expect(series.columns.expertRegret[last]).toBe(s.experts?.regret);
+        expect(series.columns.dynamicRegret[last]).toBe(s.dynamic?.regret);
+        expect(series.columns.adaptiveLinear[last]).toBe(s.adaptive?.linear?.regret);
+        // The window keeps the last rows of the full series, oldest first.
+        const ws = trackers[1].series();
+        for (let r = 0; r < ws.length; r++) {
+          expect(ws.columns.round[r]).toBe(series.columns.round[series.length - ws.length + r]);
+          expect(ws.columns.linearRegret[r]).toBe(series.columns.linearRegret[series.length - ws.length + r]);
+        }
+      }),
+      { numRuns: 100, seed: 5 },
+    );
+  });
+
+  it("summed quadratics: the streamed minimum equals the full-history evaluation at the minimizer", () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 3 }).chain((d) =>
+          fc.record({
+            d: fc.constant(d),
+            rounds: fc.array(
+              fc.record({
+                m: fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: d * d, maxLength: d * d }),
+                b: fc.array(fc.double({ min: -2, max: 2, noNaN: true }), { minLength: d, maxLength: d }),
+                c: fc.double({ min: -1, max: 1, noNaN: true }),
+                x: fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: d, maxLength: d }),
+              }),
+              { minLength: 1, maxLength: 30 },
+            ),
+          }),
+        ),
+        fc.boolean(),
+        ({ d, rounds }, boxed) => {
+          const mk = (r: (typeof rounds)[number]) => {
+            // A_t = M Mᵀ + 0.1 I (SPD).
+            const A = new Float64Array(d * d);
+            for (let i = 0; i < d; i++) {
+              for (let j = 0; j < d; j++) {
+                let s = i === j ? 0.1 : 0;
+                for (let k = 0; k < d; k++) s += r.m[i * d + k] * r.m[j * d + k];
+                A[i * d + j] = s;
+              }
+            }
+            return quadraticLoss(A, { linear: Float64Array.from(r.b), constant: r.c });
+          };
+          const domain = boxed ? boxDomain(-0.3, 0.2, d) : undefined;
+          const summary = createRegretTracker({ dimension: d, domain, linear: false, quadratic: true, history: "summary" });
+          const full = createRegretTracker({ dimension: d, domain, linear: false, quadratic: true, history: "full" });
+          for (const r of rounds) {
+            const input = { decision: Float64Array.from(r.x), lossObject: mk(r) };
+            summary.record(input);
+            full.record(input);
+          }
+          const q = summary.summary().quadratic;
+          expect(q?.status).toBe("converged");
+          if (!q) return;
+          const direct = full.regretAgainst(q.argmin);
+          expect(Math.abs(q.regret - direct)).toBeLessThanOrEqual(1e-10 * (1 + Math.abs(direct)) * rounds.length);
+          // Optimality from the history side: no other feasible point does better.
+          for (const probe of [new Float64Array(d), Float64Array.from(rounds[0].x, (v) => (boxed ? Math.max(-0.3, Math.min(0.2, v)) : v))]) {
+            expect(full.regretAgainst(probe)).toBeLessThanOrEqual(q.regret + 1e-9 * (1 + Math.abs(q.regret)));
+          }
+        },
+      ),
+      { numRuns: 100, seed: 11 },
+    );
+  });
+});
+
+describe("bounded memory", () => {
+  it("a million-round streaming run keeps no per-round series; the window keeps at most w rows", () => {
+    const d = 2;
+    const make = (history: "summary" | "window") =>
+      createRegretTracker({
+        dimension: d,
+        domain: boxDomain(-1, 1, d),
+        experts: [new Float64Array([1, 0]), new Float64Array([0, -1])],
+        adaptiveWindow: 100,
+        history,
+        window: 256,
+      });
+    const summary = make("summary");
+    const windowed = make("window");
+    const x = new Float64Array(d);
+    const g = new Float64Array(d);
+    const lo = { value: (u: Float64Array) => g[0] * u[0] + g[1] * u[1], gradient: (_u: Float64Array, out: Float64Array) => out.set(g) ?? out };
+    const input = { decision: x, gradient: g, loss: 0, lossObject: lo };
+    let bytesAt1000 = [0, 0];
+    const T = 1_000_000;
+    for (let t = 1; t <= T; t++) {
+      g[0] = Math.sin(t);
+      g[1] = Math.cos(0.5 * t);
+      x[0] = Math.cos(t) * 0.5;
+      x[1] = Math.sin(0.3 * t) * 0.5;
+      (input as { loss: number }).loss = g[0] * x[0] + g[1] * x[1];
+      summary.record(input);
+      windowed.record(input);
+      if (t === 1000) bytesAt1000 = [summary.retainedBytes, windowed.retainedBytes];
+    }
+    expect(summary.rounds).toBe(T);
+    expect(summary.retainedRows).toBe(0);
+    expect(summary.series().length).toBe(0);
+    expect(windowed.retainedRows).toBe(256);
+    expect(windowed.series().length).toBe(256);
+    expect(windowed.series().columns.round[255]).toBe(T);
+    expect(summary.retainedBytes).toBe(bytesAt1000[0]);
+    expect(windowed.retainedBytes).toBe(bytesAt1000[1]);
+    expect(summaryToJson(summary.summary())).toBe(summaryToJson(windowed.summary()));
+  });
+});
