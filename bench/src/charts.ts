@@ -40,7 +40,7 @@ const FONT = { font: "Helvetica, Arial, sans-serif", labelFontSize: 12, titleFon
 const CONFIG = {
   font: FONT.font,
   axis: { labelFontSize: FONT.labelFontSize, titleFontSize: FONT.titleFontSize, grid: true, gridOpacity: 0.5 },
-  legend: { labelFontSize: FONT.labelFontSize, titleFontSize: FONT.titleFontSize, labelLimit: 260 },
+  legend: { labelFontSize: FONT.labelFontSize, titleFontSize: FONT.titleFontSize, labelLimit: 320 },
   title: { fontSize: 15, anchor: "start" as const, subtitleFontSize: 12, subtitleColor: "#555" },
   view: { stroke: "#ddd" },
 };

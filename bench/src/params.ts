@@ -32,6 +32,12 @@ export type ParamSchema =
       readonly default?: string;
     }
   | {
+      /** The label of another optimizer entry of the same sweep (checked when the sweep is parsed). */
+      readonly type: "optimizer";
+      readonly description: string;
+      readonly default?: string;
+    }
+  | {
       readonly type: "numbers";
       readonly description: string;
       /** Required length, when fixed. */
@@ -148,6 +154,11 @@ export function validateParams(
         if (typeof v !== "string") throw new SpecError(p, `must be a string (got ${show(v)})`);
         if (s.values && !s.values.includes(v))
           throw new SpecError(p, `must be one of ${s.values.map((x) => `"${x}"`).join(", ")} (got ${show(v)})`);
+        out[key] = v;
+        break;
+      case "optimizer":
+        if (typeof v !== "string")
+          throw new SpecError(p, `must be the label of another optimizer entry (got ${show(v)})`);
         out[key] = v;
         break;
       case "numbers": {

@@ -80,6 +80,8 @@ export interface StepResult {
 export interface BenchController {
   /** Choose the control for state x at step t. */
   act(x: Float64Array, t: number): StepResult;
+  /** Forget everything learned during an episode (plan warm start, …); optional. */
+  reset?(): void;
   /**
    * The learner's own regret series (cumulative, one entry per step), when the controller tracks
    * one with @recede/regret. The harness also computes, for every controller, the regret against
@@ -96,6 +98,8 @@ export interface FactoryContext {
   readonly quick: boolean;
   /** The registry (to build nested optimizers, e.g. the expert of a distilled policy). */
   readonly registry: Registry;
+  /** The optimizer entry of the sweep with this label (for parameters of type "optimizer"). */
+  optimizerEntry(label: string): { readonly kind: string; readonly params: ParamValues } | undefined;
 }
 
 /** A problem kind the sweep file can name in `problems[i].problem`. */

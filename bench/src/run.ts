@@ -87,7 +87,12 @@ export async function executeRun(
     episode: cell.episode,
     config: cell.config,
   };
-  const ctx = { seed: cell.seed, quick, registry };
+  const ctx = {
+    seed: cell.seed,
+    quick,
+    registry,
+    optimizerEntry: (label: string) => spec.optimizers.find((o) => o.label === label),
+  };
   let problem: BenchProblem;
   let controller: BenchController;
   const t0 = performance.now();

@@ -65,10 +65,18 @@ function isObject(v: unknown): v is Record<string, unknown> {
 }
 
 function requireLabel(v: unknown, path: string): string {
-  if (typeof v !== "string" || !/^[A-Za-z0-9][A-Za-z0-9_.+-]*$/.test(v))
+  if (
+    typeof v !== "string" ||
+    v.length === 0 ||
+    v.length > 60 ||
+    v !== v.trim() ||
+    v.includes("/") ||
+    // biome-ignore lint/suspicious/noControlCharactersInRegex: rejecting control characters is the point
+    /[\u0000-\u001f]/.test(v)
+  )
     throw new SpecError(
       path,
-      `must be a label of letters, digits and _ . + - (starting with a letter or digit) (got ${show(v)})`,
+      `must be a label of 1–60 characters without "/", control characters or surrounding spaces (got ${show(v)})`,
     );
   return v;
 }
@@ -151,6 +159,20 @@ export function parseSweepSpec(raw: unknown, registry: Registry): SweepSpec {
     return { label, kind: o.kind, params, only };
   });
   uniqueLabels(optimizers, "optimizers");
+  // Cross references (e.g. the expert of a distilled policy) must name another entry.
+  optimizers.forEach((o, i) => {
+    const schema = registry.optimizer(o.kind)!.params;
+    for (const [key, s] of Object.entries(schema)) {
+      if (s.type !== "optimizer" || o.params[key] === undefined) continue;
+      const ref = o.params[key] as string;
+      const labels = optimizers.map((x) => x.label).filter((l) => l !== o.label);
+      if (!labels.includes(ref))
+        throw new SpecError(
+          `optimizers[${i}].${key}`,
+          `must be the label of another optimizer entry: one of ${labels.map((l) => `"${l}"`).join(", ") || "(none)"} (got ${show(ref)})`,
+        );
+    }
+  });
 
   let seeds: number[];
   if (Array.isArray(raw.seeds)) {

@@ -136,7 +136,12 @@ export function preflight(spec: SweepSpec, registry: Registry, quick: boolean): 
   spec.problems.forEach((pe, i) => {
     let problem: ReturnType<ProblemDefinition["create"]>;
     try {
-      problem = registry.problem(pe.problem)!.create(pe.params, { seed: spec.seeds[0], quick, registry });
+      problem = registry.problem(pe.problem)!.create(pe.params, {
+        seed: spec.seeds[0],
+        quick,
+        registry,
+        optimizerEntry: (label) => spec.optimizers.find((o) => o.label === label),
+      });
     } catch (e) {
       throw new SpecError(`problems[${i}]`, (e as Error).message);
     }

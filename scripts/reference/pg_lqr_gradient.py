@@ -101,6 +101,13 @@ for name, A, B, Q, R, S0 in [
     dares.append(dict(name=name, A=A.tolist(), B=B.tolist(), Q=Q.tolist(), R=R.tolist(), Sigma0=S0.tolist(),
                       P=P.tolist(), K=K.tolist(), cost=float(np.trace(P @ S0))))
 
+# discounted DARE gain of the noisy double-integrator case: the optimum of C over K for gamma = 0.9
+# (action noise only adds a K-independent constant), from the DARE of (sqrt(gamma) A, sqrt(gamma) B)
+g = 0.9
+P, K = dare(np.sqrt(g) * A2, np.sqrt(g) * B2, Q2, R2)
+dares.append(dict(name="double-integrator-discounted", discount=g, A=A2.tolist(), B=B2.tolist(), Q=Q2.tolist(),
+                  R=R2.tolist(), Sigma0=S02.tolist(), P=P.tolist(), K=K.tolist(), cost=float(np.trace(P @ S02))))
+
 out = dict(
     source="scipy.linalg.solve_discrete_lyapunov / solve_discrete_are (scipy %s, numpy %s); formulas of Fazel, Ge, Kakade & Mesbahi, ICML 2018"
     % (__import__("scipy").__version__, np.__version__),

@@ -12,7 +12,7 @@ const CONFIG = {
   font: "Helvetica, Arial, sans-serif",
   axis: { labelFontSize: 11, titleFontSize: 12, gridOpacity: 0.5 },
   header: { labelFontSize: 13, labelFontWeight: "bold" as const },
-  legend: { labelFontSize: 12, titleFontSize: 12 },
+  legend: { labelFontSize: 12, titleFontSize: 12, labelLimit: 320 },
   title: { fontSize: 15, anchor: "start" as const, subtitleFontSize: 12, subtitleColor: "#555" },
   view: { stroke: "#ddd" },
 };

@@ -131,17 +131,29 @@ export const DRONE_WEIGHTS: {
   readonly rate: number;
   readonly thrust: number;
   readonly envelope: number;
+  readonly cone: number;
+  readonly airborne: number;
   readonly terminal: number;
+  readonly aimHeight: number;
 } = Object.freeze({
-  position: 2,
-  height: 0.6,
-  tilt: 2,
+  position: 1,
+  height: 2,
+  tilt: 10,
   velocity: 0.3,
-  rate: 0.1,
+  rate: 0.5,
   thrust: 0.01,
   /** Weight of the squared excess over the descent-speed envelope −v_z ≤ 0.3 + 0.5·p_z. */
   envelope: 40,
+  /** Weight of the squared excess over the approach cone |p_x| ≤ 0.2 + 0.6·p_z. */
+  cone: 20,
+  /** Cost per step while airborne (p_z > 0): the price of time in the air (battery, schedule). */
+  airborne: 5,
   terminal: 10,
+  /**
+   * Height the cost aims at, m: slightly below the roof, so that reaching the pad (and touching
+   * down) is what the cost asks for rather than hovering just above it.
+   */
+  aimHeight: -0.5,
 });
 
 /** Hover thrust per rotor, N. */
@@ -149,12 +161,12 @@ export const HOVER_THRUST: number = (DRONE_PARAMETERS.mass * DRONE_PARAMETERS.gr
 
 /**
  * Quadratic part q(x) of the landing cost (also the terminal cost, scaled):
- * w_x p_x² + w_z p_z² + w_θ θ² + w_v (v_x² + v_z²) + w_ω ω².
+ * w_x p_x² + w_z (p_z − z_aim)² + w_θ θ² + w_v (v_x² + v_z²) + w_ω ω², with z_aim = `aimHeight` < 0.
  */
 function stateCost(x: Float64Array, b: number): number {
   const w = DRONE_WEIGHTS;
   const px = x[b];
-  const pz = x[b + 1];
+  const pz = x[b + 1] - DRONE_WEIGHTS.aimHeight;
   const th = x[b + 2];
   const vx = x[b + 3];
   const vz = x[b + 4];
@@ -169,8 +181,10 @@ function stateCost(x: Float64Array, b: number): number {
 }
 
 /**
- * The landing cost: running c(x, u) = q(x) + w_u ‖u − u_hover‖² + w_e max(0, −v_z − 0.3 − 0.5 p_z)²,
- * terminal c_H(x) = w_H q(x). The envelope term asks for a descent that slows near the roof.
+ * The landing cost: running
+ *   c(x, u) = q(x) + w_u ‖u − u_hover‖² + w_e max(0, −v_z − 0.3 − 0.5 p_z)² + w_c max(0, |p_x| − 0.2 − 0.6 p_z)² + w_a 1[p_z > 0],
+ * terminal c_H(x) = w_H q(x). The envelope term asks for a descent that slows near the roof, the
+ * cone term for being over the pad before getting low, and w_a prices time in the air.
  */
 export const droneCost: CostModel = {
   stateSize: N,
@@ -183,7 +197,14 @@ export const droneCost: CostModel = {
       const du1 = u[uo + k * M + 1] - HOVER_THRUST;
       const excess = -x[b + 4] - 0.3 - 0.5 * Math.max(0, x[b + 1]);
       const env = excess > 0 ? excess * excess : 0;
-      out[oo + k] += stateCost(x, b) + w.thrust * (du0 * du0 + du1 * du1) + w.envelope * env;
+      const wide = Math.abs(x[b]) - 0.2 - 0.6 * Math.max(0, x[b + 1]);
+      const cone = wide > 0 ? wide * wide : 0;
+      out[oo + k] +=
+        stateCost(x, b) +
+        w.thrust * (du0 * du0 + du1 * du1) +
+        w.envelope * env +
+        w.cone * cone +
+        (x[b + 1] > 0 ? w.airborne : 0);
     }
   },
   terminal(x, xo, count, out, oo): void {
@@ -255,7 +276,7 @@ export function droneLinearQuadratic(dt: number): LinearQuadratic {
     q,
     r: new Float64Array([w.thrust, 0, 0, w.thrust]),
     qf,
-    state: new Float64Array(N),
+    state: new Float64Array([0, DRONE_WEIGHTS.aimHeight, 0, 0, 0, 0]),
     control: ub,
     continuousA: null,
     continuousB: null,
@@ -292,11 +313,11 @@ function gustForce(steady: number, gusts: readonly Gust[], time: number): number
 
 /** Parameters the sweep file may set for the `parcel-drone` problem. */
 export const droneParams: ParamSchemaMap = {
-  steps: { type: "integer", min: 1, default: 200, description: "episode length in control steps" },
+  steps: { type: "integer", min: 1, default: 240, description: "episode length in control steps" },
   dt: { type: "number", above: 0, max: 0.2, default: 0.05, description: "control period, s" },
   gustSteady: { type: "number", min: 0, default: 1.0, description: "largest steady side force, N" },
-  gustMin: { type: "number", min: 0, default: 2.5, description: "smallest gust amplitude, N" },
-  gustMax: { type: "number", min: 0, default: 5.0, description: "largest gust amplitude, N" },
+  gustMin: { type: "number", min: 0, default: 1.5, description: "smallest gust amplitude, N" },
+  gustMax: { type: "number", min: 0, default: 3.5, description: "largest gust amplitude, N" },
   gusts: { type: "integer", min: 0, max: 10, default: 3, description: "gusts per episode" },
   startOffset: { type: "number", default: -4, description: "mean start p_x (pad at 0), m" },
   startHeight: { type: "number", above: 0, default: 8, description: "mean start height above the roof, m" },
@@ -352,7 +373,7 @@ export function parcelDrone(params: ParamValues = {}): BenchProblem {
     bounds,
     stateNames: ["p_x", "p_z", "θ", "v_x", "v_z", "ω"],
     equilibrium: {
-      state: new Float64Array(N),
+      state: new Float64Array([0, DRONE_WEIGHTS.aimHeight, 0, 0, 0, 0]),
       control: new Float64Array([HOVER_THRUST, HOVER_THRUST]),
     },
     linearQuadratic: droneLinearQuadratic(dt),
@@ -389,7 +410,13 @@ export function parcelDrone(params: ParamValues = {}): BenchProblem {
       if (!landed || !touchdown)
         return {
           success: false,
-          metrics: { landed: 0, missDistance: Number.NaN, touchdownSpeed: Number.NaN, landingTime: Number.NaN },
+          metrics: {
+            landed: 0,
+            missDistance: Number.NaN,
+            touchdownSpeed: Number.NaN,
+            touchdownTilt: Number.NaN,
+            landingTime: Number.NaN,
+          },
         };
       const ok =
         touchdown.miss <= th.missDistance && touchdown.speed <= th.touchdownSpeed && touchdown.tilt <= th.tilt;
@@ -399,6 +426,7 @@ export function parcelDrone(params: ParamValues = {}): BenchProblem {
           landed: 1,
           missDistance: touchdown.miss,
           touchdownSpeed: touchdown.speed,
+          touchdownTilt: (touchdown.tilt * 180) / Math.PI,
           landingTime: (count - 1) * dt,
         },
       };

@@ -81,6 +81,9 @@ export function wrapController(c: Controller): BenchController {
       const { control, report } = c.act(x);
       return { control, samples: c.samples * report.iterations };
     },
+    reset() {
+      c.reset();
+    },
   };
 }
 

@@ -57,6 +57,7 @@ export {
   type DynamicStep,
   dynamicMirrorDescent,
 } from "./learners/dynamicMirrorDescent.js";
+export { fixedShare } from "./learners/fixedShare.js";
 export {
   type MirrorDescentLearner,
   type MirrorDescentOptions,

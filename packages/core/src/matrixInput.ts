@@ -38,7 +38,14 @@ function isNd(m: unknown): m is NdArrayLike {
 
 /**
  * Copy a matrix input into a row-major Float64Array, checking its shape and that every entry is
- * finite. `rows`/`cols` of −1 accept any size.
+ * finite. `rows`/`cols` of −1 accept any size. Element (i, j) of an ndarray view is read at
+ * `data[offset + i·stride[0] + j·stride[1]]`, so transposed, strided and offset views work.
+ * Errors name `fn` and `arg` (the caller's function and argument).
+ *
+ * @example
+ * ```ts
+ * toRowMajor("myFunction", "A", [[1, 2], [3, 4]]); // { data: Float64Array [1, 2, 3, 4], rows: 2, cols: 2 }
+ * ```
  */
 export function toRowMajor(
   fn: string,

@@ -766,7 +766,7 @@ export function dare(system: LqrSystem, options: DareOptions = {}): DareSolution
     newtonIterations++;
     let diff = 0;
     for (let i = 0; i < n * n; i++) diff += (pk[i] - p[i]) * (pk[i] - p[i]);
-    p = pk;
+    p = new Float64Array(pk);
     havePolished = true;
     if (gainFromValue(sys, w, p, k, next) === "singular") {
       throw notStabilizable(`R + BᵀPB became singular at Newton iteration ${it}`);

@@ -144,17 +144,11 @@ class RolloutEngine implements Rollout {
     if (m === 1) {
       const l = lo[0];
       const u = hi[0];
-      for (let p = start; p < end; p++) {
-        const v = samples[p];
-        samples[p] = v < l ? l : v > u ? u : v;
-      }
+      for (let p = start; p < end; p++) samples[p] = Math.min(Math.max(samples[p], l), u);
       return;
     }
     for (let p = start; p < end; p += m) {
-      for (let j = 0; j < m; j++) {
-        const v = samples[p + j];
-        samples[p + j] = v < lo[j] ? lo[j] : v > hi[j] ? hi[j] : v;
-      }
+      for (let j = 0; j < m; j++) samples[p + j] = Math.min(Math.max(samples[p + j], lo[j]), hi[j]);
     }
   }
 

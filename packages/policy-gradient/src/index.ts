@@ -32,6 +32,37 @@ export {
   type ValueModel,
 } from "./estimators/valueFunction.js";
 export {
+  type AggrevatedOptions,
+  type AggrevatedResult,
+  type AggrevatedRound,
+  aggrevated,
+} from "./imitation/aggrevated.js";
+export {
+  type BehaviourCloningOptions,
+  behaviourCloning,
+  type DaggerOptions,
+  type DaggerRound,
+  dagger,
+  type Expert,
+  type ImitationOptions,
+  type ImitationResult,
+  type MixingSchedule,
+} from "./imitation/dagger.js";
+export { ImitationDataset } from "./imitation/dataset.js";
+export {
+  type FitPolicyOptions,
+  type FitPolicyReport,
+  fitPolicy,
+  imitationLoss,
+} from "./imitation/fitPolicy.js";
+export {
+  type ImitationFeedback,
+  ImitationLearner,
+  type ImitationLearnerOptions,
+  type ImitationLearnerSnapshot,
+  imitationLearner,
+} from "./imitation/imitationLearner.js";
+export {
   type LqrPolicyEvaluation,
   LqrPolicyProblem,
   type LqrPolicyProblemOptions,

@@ -6,6 +6,9 @@ interface CartPoleFixture {
   samples: { state: number[]; force: number; xdd: number; thdd: number }[];
   uprightA: number[][];
   uprightB: number[];
+  zohDt: number;
+  zohA: number[][];
+  zohB: number[];
 }
 const fixture: CartPoleFixture = JSON.parse(
   readFileSync(new URL("../fixtures/cartpole.json", import.meta.url), "utf8"),
@@ -50,5 +53,30 @@ describe("cartPole against outside references", () => {
       }
       expect(Math.abs(lq.continuousB![i] - fixture.uprightB[i])).toBeLessThan(1e-7);
     }
+  });
+
+  // Source: scipy.linalg.expm of the augmented linearization (exact ZOH, τ = 0.02 s), same script.
+  // The problem's discrete A is the exact Jacobian of one RK4 step, i.e. the Taylor series of e^{Aτ}
+  // through τ⁴ (Hairer, Nørsett & Wanner, Solving ODEs I, 1993), so A_rk4 − e^{Aτ} ≈ −A⁵τ⁵/5!.
+  it("discrete upright linearization (RK4 Jacobian) differs from scipy's ZOH by the A⁵τ⁵/5! term", () => {
+    const lq = p.linearQuadratic!;
+    const tau = fixture.zohDt;
+    expect(p.dt).toBe(tau);
+    const Ac = fixture.uprightA;
+    const mul = (x: number[][], y: number[][]) =>
+      x.map((row, i) => y[0].map((_, j) => row.reduce((s, _v, k) => s + x[i][k] * y[k][j], 0)));
+    let a5 = Ac;
+    for (let k = 1; k < 5; k++) a5 = mul(a5, Ac);
+    let worst = 0;
+    let predicted = 0;
+    for (let i = 0; i < 4; i++) {
+      for (let j = 0; j < 4; j++) {
+        worst = Math.max(worst, Math.abs(lq.a[i * 4 + j] - fixture.zohA[i][j]));
+        predicted = Math.max(predicted, (Math.abs(a5[i][j]) * tau ** 5) / 120);
+      }
+    }
+    expect(worst / predicted).toBeGreaterThan(0.95);
+    expect(worst / predicted).toBeLessThan(1.05);
+    for (let i = 0; i < 4; i++) expect(Math.abs(lq.b[i] - fixture.zohB[i])).toBeLessThan(2e-8);
   });
 });

@@ -177,13 +177,22 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
 
   const M = mc + mp;
   const mpl = mp * l;
+  const invM = 1 / M;
+  const l43 = (4 / 3) * l;
+  const lmpM = (l * mp) / M;
+  /** θ̈ at sin θ = s, cos θ = c (frictionless Florian form, constants folded). */
+  const thetaAcc = (s: number, c: number, w: number, F: number): number =>
+    (g * s - c * (F + mpl * w * w * s) * invM) / (l43 - lmpM * c * c);
+  /** ẍ given θ̈. */
+  const cartAcc = (s: number, c: number, w: number, F: number, thdd: number): number =>
+    (F + mpl * (w * w * s - thdd * c)) * invM;
   const acc = new Float64Array(2);
-  /** acc[0] ← ẍ, acc[1] ← θ̈ (frictionless Florian form). */
+  /** acc[0] ← ẍ, acc[1] ← θ̈. */
   const accel = (th: number, w: number, F: number): void => {
     const s = Math.sin(th);
     const c = Math.cos(th);
-    const thdd = (g * s + (c * (-F - mpl * w * w * s)) / M) / (l * (4 / 3 - (mp * c * c) / M));
-    acc[0] = (F + mpl * (w * w * s - thdd * c)) / M;
+    const thdd = thetaAcc(s, c, w, F);
+    acc[0] = cartAcc(s, c, w, F, thdd);
     acc[1] = thdd;
   };
 
@@ -237,27 +246,31 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
         const v = x[b + 1];
         const th = x[b + 2];
         const w = x[b + 3];
-        // classical RK4 with the state in locals
-        accel(th, w, F);
+        // classical RK4 with the state in locals; pure helpers so V8 can inline them
+        let sn = Math.sin(th);
+        let cs = Math.cos(th);
+        const k1w = thetaAcc(sn, cs, w, F);
+        const k1v = cartAcc(sn, cs, w, F, k1w);
         const k1p = v;
-        const k1v = acc[0];
         const k1t = w;
-        const k1w = acc[1];
-        accel(th + 0.5 * h * k1t, w + 0.5 * h * k1w, F);
         const k2p = v + 0.5 * h * k1v;
-        const k2v = acc[0];
         const k2t = w + 0.5 * h * k1w;
-        const k2w = acc[1];
-        accel(th + 0.5 * h * k2t, w + 0.5 * h * k2w, F);
+        sn = Math.sin(th + 0.5 * h * k1t);
+        cs = Math.cos(th + 0.5 * h * k1t);
+        const k2w = thetaAcc(sn, cs, k2t, F);
+        const k2v = cartAcc(sn, cs, k2t, F, k2w);
         const k3p = v + 0.5 * h * k2v;
-        const k3v = acc[0];
         const k3t = w + 0.5 * h * k2w;
-        const k3w = acc[1];
-        accel(th + h * k3t, w + h * k3w, F);
+        sn = Math.sin(th + 0.5 * h * k2t);
+        cs = Math.cos(th + 0.5 * h * k2t);
+        const k3w = thetaAcc(sn, cs, k3t, F);
+        const k3v = cartAcc(sn, cs, k3t, F, k3w);
         const k4p = v + h * k3v;
-        const k4v = acc[0];
         const k4t = w + h * k3w;
-        const k4w = acc[1];
+        sn = Math.sin(th + h * k3t);
+        cs = Math.cos(th + h * k3t);
+        const k4w = thetaAcc(sn, cs, k4t, F);
+        const k4v = cartAcc(sn, cs, k4t, F, k4w);
         const c = h / 6;
         x[b] = p + c * (k1p + 2 * k2p + 2 * k3p + k4p);
         x[b + 1] = v + c * (k1v + 2 * k2v + 2 * k3v + k4v);

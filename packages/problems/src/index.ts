@@ -1,18 +1,30 @@
 /**
  * @recede/problems — reference control problems with batched dynamics, costs, bounds, start states
  * and success tests, each with its published source: double integrator, pendulum swing-up,
- * cart-pole swing-up (and planar quadrotor, kinematic bicycle). Also the batched cost atoms the
- * controllers reuse (quadratic tracking cost, soft state limits, sums).
+ * cart-pole swing-up, planar quadrotor (with an optional disturbance for plant/model mismatch) and
+ * a kinematic-bicycle mobile robot. Also the batched cost atoms the controllers reuse (quadratic
+ * tracking cost, soft state limits, circular obstacles, sums).
  *
  * @packageDocumentation
  */
 
+export {
+  type BicycleOptions,
+  type BicycleParameters,
+  type BicycleProblem,
+  bicycle,
+} from "./bicycle.js";
 export {
   type CartPoleOptions,
   type CartPoleParameters,
   type CartPoleProblem,
   cartPole,
 } from "./cartPole.js";
+export {
+  type CircleObstacle,
+  type CircleObstaclesOptions,
+  circleObstacles,
+} from "./costs/circleObstacles.js";
 export {
   type QuadraticCost,
   type QuadraticCostOptions,
@@ -32,6 +44,13 @@ export {
   type PendulumProblem,
   pendulum,
 } from "./pendulum.js";
+export {
+  type PlanarQuadrotorOptions,
+  type PlanarQuadrotorParameters,
+  type PlanarQuadrotorProblem,
+  planarQuadrotor,
+  type QuadrotorDisturbance,
+} from "./planarQuadrotor.js";
 export {
   type LinearQuadratic,
   type Problem,

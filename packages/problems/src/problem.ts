@@ -87,7 +87,11 @@ export interface Problem {
   readonly angleIndices: readonly number[];
   /** Control period Δt in seconds: one `dynamics.step` advances the state by Δt. */
   readonly dt: number;
-  /** The batched discrete-time model x_{t+1} = f(x_t, u_t, t), with analytic Jacobians. */
+  /**
+   * The batched discrete-time model x_{t+1} = f(x_t, u_t, t), with analytic Jacobians (of the
+   * discrete step itself). `step` keeps each sample's integrator stages in local variables, so it
+   * needs no scratch buffer, allocates nothing and works for any `count` without growing anything.
+   */
   readonly dynamics: Dynamics;
   /** The batched running + terminal cost the problem is scored with. */
   readonly cost: CostModel;

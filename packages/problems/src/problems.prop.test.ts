@@ -3,7 +3,15 @@ import { describe, expect, it } from "vitest";
 import type { Problem } from "./problem.js";
 import { getProblem, problemNames } from "./registry.js";
 
-const all: Problem[] = problemNames.map((name) => getProblem(name));
+const all: Problem[] = [
+  ...problemNames.map((name) => getProblem(name)),
+  // non-default variants whose extra terms the defaults do not exercise
+  Object.assign(getProblem("planar-quadrotor", { drag: 0.35 }), { name: "planar-quadrotor+drag" }),
+  Object.assign(getProblem("bicycle", { rearLength: 0 }), { name: "bicycle (rear-axle point)" }),
+  Object.assign(getProblem("double-integrator", { axes: 3, q: 2, r: [0.5, 1, 2] }), {
+    name: "double-integrator (3 axes)",
+  }),
+];
 
 /** A state near the problem's operating region, from unit-scale numbers. */
 const stateArb = (p: Problem) =>

@@ -4,9 +4,11 @@
  * @module
  */
 import { RecedeError } from "@recede/core";
+import { type BicycleOptions, bicycle } from "./bicycle.js";
 import { type CartPoleOptions, cartPole } from "./cartPole.js";
 import { type DoubleIntegratorOptions, doubleIntegrator } from "./doubleIntegrator.js";
 import { type PendulumOptions, pendulum } from "./pendulum.js";
+import { type PlanarQuadrotorOptions, planarQuadrotor } from "./planarQuadrotor.js";
 import type { Problem } from "./problem.js";
 
 /** Options accepted by each registered problem. */
@@ -14,6 +16,8 @@ export interface ProblemOptionsByName {
   "double-integrator": DoubleIntegratorOptions;
   pendulum: PendulumOptions;
   "cart-pole": CartPoleOptions;
+  "planar-quadrotor": PlanarQuadrotorOptions;
+  bicycle: BicycleOptions;
 }
 
 /** Name of a registered problem. */
@@ -28,6 +32,8 @@ export const problems: { readonly [K in ProblemName]: ProblemFactory<ProblemOpti
     "double-integrator": doubleIntegrator,
     pendulum,
     "cart-pole": cartPole,
+    "planar-quadrotor": planarQuadrotor,
+    bicycle,
   });
 
 /** The registered names, in a stable order. */

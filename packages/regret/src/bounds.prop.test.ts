@@ -49,10 +49,13 @@ const ogdCase = fc
   .chain((c) =>
     fc.record({
       c: fc.constant(c),
-      raw: fc.array(fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: c.d, maxLength: c.d }), {
-        minLength: c.T,
-        maxLength: c.T,
-      }),
+      raw: fc.array(
+        fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: c.d, maxLength: c.d }),
+        {
+          minLength: c.T,
+          maxLength: c.T,
+        },
+      ),
     }),
   );
 
@@ -213,10 +216,13 @@ const hedgeCase = fc
   .chain((c) =>
     fc.record({
       c: fc.constant(c),
-      raw: fc.array(fc.array(fc.double({ min: 0, max: 1, noNaN: true }), { minLength: c.N, maxLength: c.N }), {
-        minLength: c.T,
-        maxLength: c.T,
-      }),
+      raw: fc.array(
+        fc.array(fc.double({ min: 0, max: 1, noNaN: true }), { minLength: c.N, maxLength: c.N }),
+        {
+          minLength: c.T,
+          maxLength: c.T,
+        },
+      ),
     }),
   );
 
@@ -241,7 +247,11 @@ function runHedge(
   raw: number[][],
   learner: ReturnType<typeof mirrorDescent>,
 ): { regret: number; sumSquaredLinf: number } {
-  const tracker = createRegretTracker({ dimension: c.N, domain: simplexDomain(c.N), history: "summary" });
+  const tracker = createRegretTracker({
+    dimension: c.N,
+    domain: simplexDomain(c.N),
+    history: "summary",
+  });
   tracker.attach(learner);
   for (let t = 0; t < c.T; t++) {
     const p = learner.decision();

@@ -78,10 +78,15 @@ describe("SVG charts via Vega", () => {
     const tracker = createRegretTracker({ dimension: N, domain: simplexDomain(N) });
     const p = new Float64Array([0.2, 0.3, 0.5]);
     for (let t = 1; t <= T; t++) {
-      tracker.record({ decision: p, lossObject: linearLoss(new Float64Array([t % 2, (t + 1) % 2, 0.6])) });
+      tracker.record({
+        decision: p,
+        lossObject: linearLoss(new Float64Array([t % 2, (t + 1) % 2, 0.6])),
+      });
     }
     const series = tracker.series();
-    const svg = await renderRegretChartSvg(series, (t) => hedgeRegretBound({ experts: N, rounds: t, stepSize: 0.3 }));
+    const svg = await renderRegretChartSvg(series, (t) =>
+      hedgeRegretBound({ experts: N, rounds: t, stepSize: 0.3 }),
+    );
     expect(wellFormed(svg)).toBe(true);
     const paths = linePaths(svg);
     expect(paths.length).toBe(2);

@@ -85,7 +85,9 @@ describe("best fixed decision in hindsight vs SciPy (fixtures/comparators.json)"
       expect(Math.abs(lin.regret - c.regret)).toBeLessThan(tol * (1 + Math.abs(c.regret)));
       expect(Math.abs(s.cumulativeLoss - lin.playedValue - C)).toBeLessThan(1e-10 * scale(c));
       for (let i = 0; i < d; i++) {
-        expect(Math.abs(lin.argmin[i] - c.argmin[i])).toBeLessThan(c.domain.kind === "ball" ? 1e-6 : 1e-9);
+        expect(Math.abs(lin.argmin[i] - c.argmin[i])).toBeLessThan(
+          c.domain.kind === "ball" ? 1e-6 : 1e-9,
+        );
       }
     });
   }

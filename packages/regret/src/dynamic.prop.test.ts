@@ -19,7 +19,10 @@ interface Round {
 const caseArb = fc.integer({ min: 1, max: 4 }).chain((d) =>
   fc.record({
     d: fc.constant(d),
-    drift: fc.array(fc.double({ min: -0.5, max: 0.5, noNaN: true }), { minLength: d, maxLength: d }),
+    drift: fc.array(fc.double({ min: -0.5, max: 0.5, noNaN: true }), {
+      minLength: d,
+      maxLength: d,
+    }),
     eta: fc.double({ min: 0.01, max: 1, noNaN: true }),
     rounds: fc.array(
       fc.record({

@@ -10,7 +10,10 @@ import { linearLoss, quadraticLoss } from "./losses.js";
 import { createRegretTracker, type RegretTracker, type RoundInput } from "./tracker.js";
 
 function fingerprint(t: RegretTracker): string {
-  return `${t.rounds}|${summaryToJson(t.summary())}|${seriesToJson(t.series())}|${t.retainedDecisions().map((x) => Array.from(x).join(",")).join(";")}`;
+  return `${t.rounds}|${summaryToJson(t.summary())}|${seriesToJson(t.series())}|${t
+    .retainedDecisions()
+    .map((x) => Array.from(x).join(","))
+    .join(";")}`;
 }
 
 function makeTracker(): RegretTracker {
@@ -29,7 +32,11 @@ function makeTracker(): RegretTracker {
 
 const good = (k: number): RoundInput => {
   const g = new Float64Array([Math.sin(k), Math.cos(k)]);
-  return { decision: new Float64Array([0.1 * k, -0.2]), gradient: g, lossObject: linearLoss(g, 0.5) };
+  return {
+    decision: new Float64Array([0.1 * k, -0.2]),
+    gradient: g,
+    lossObject: linearLoss(g, 0.5),
+  };
 };
 
 function expectTyped(
@@ -55,21 +62,60 @@ function expectTyped(
 
 describe("typed errors leave the tracker unchanged", () => {
   const bad: Array<[string, (k: number) => RoundInput, RecedeError["code"], string | RegExp]> = [
-    ["NaN in the decision", (k) => ({ ...good(k), decision: new Float64Array([Number.NaN, 0]) }), "non-finite", "decision[0]"],
-    ["∞ in the decision", (k) => ({ ...good(k), decision: new Float64Array([0, Number.POSITIVE_INFINITY]) }), "non-finite", "decision[1]"],
-    ["wrong-size decision", (k) => ({ ...good(k), decision: new Float64Array(3) }), "dimension", "decision"],
-    ["decision not a Float64Array", (k) => ({ ...good(k), decision: [0, 0] as unknown as Float64Array }), "type", "decision"],
+    [
+      "NaN in the decision",
+      (k) => ({ ...good(k), decision: new Float64Array([Number.NaN, 0]) }),
+      "non-finite",
+      "decision[0]",
+    ],
+    [
+      "∞ in the decision",
+      (k) => ({ ...good(k), decision: new Float64Array([0, Number.POSITIVE_INFINITY]) }),
+      "non-finite",
+      "decision[1]",
+    ],
+    [
+      "wrong-size decision",
+      (k) => ({ ...good(k), decision: new Float64Array(3) }),
+      "dimension",
+      "decision",
+    ],
+    [
+      "decision not a Float64Array",
+      (k) => ({ ...good(k), decision: [0, 0] as unknown as Float64Array }),
+      "type",
+      "decision",
+    ],
     ["NaN loss", (k) => ({ ...good(k), loss: Number.NaN }), "non-finite", "loss"],
     ["−∞ loss", (k) => ({ ...good(k), loss: Number.NEGATIVE_INFINITY }), "non-finite", "loss"],
-    ["wrong-size gradient", (k) => ({ ...good(k), gradient: new Float64Array(1) }), "dimension", "gradient"],
-    ["NaN in the gradient", (k) => ({ ...good(k), gradient: new Float64Array([0, Number.NaN]) }), "non-finite", "gradient[1]"],
+    [
+      "wrong-size gradient",
+      (k) => ({ ...good(k), gradient: new Float64Array(1) }),
+      "dimension",
+      "gradient",
+    ],
+    [
+      "NaN in the gradient",
+      (k) => ({ ...good(k), gradient: new Float64Array([0, Number.NaN]) }),
+      "non-finite",
+      "gradient[1]",
+    ],
     [
       "loss object returning NaN",
-      (k) => ({ ...good(k), loss: 1, lossObject: { value: () => Number.NaN, gradient: (_x, o) => o } }),
+      (k) => ({
+        ...good(k),
+        loss: 1,
+        lossObject: { value: () => Number.NaN, gradient: (_x, o) => o },
+      }),
       "non-finite",
       /^lossObject\.value\(experts\[0\]\)$/,
     ],
-    ["no loss object although experts need one", (k) => ({ decision: good(k).decision, gradient: good(k).gradient, loss: 1 }), "state", "lossObject"],
+    [
+      "no loss object although experts need one",
+      (k) => ({ decision: good(k).decision, gradient: good(k).gradient, loss: 1 }),
+      "state",
+      "lossObject",
+    ],
   ];
   for (const [name, make, code, arg] of bad) {
     it(name, () => {
@@ -92,8 +138,16 @@ describe("typed errors leave the tracker unchanged", () => {
       experts: [(_t, _lo, _out) => new Float64Array(3)],
     });
     expectTyped(() => t.record(good(1)), "dimension", "RegretTracker.record", "experts[0](round)");
-    const u = createRegretTracker({ dimension: 2, comparator: (_t, _lo, out) => out.fill(Number.NaN) });
-    expectTyped(() => u.record(good(1)), "non-finite", "RegretTracker.record", "comparator(round)[0]");
+    const u = createRegretTracker({
+      dimension: 2,
+      comparator: (_t, _lo, out) => out.fill(Number.NaN),
+    });
+    expectTyped(
+      () => u.record(good(1)),
+      "non-finite",
+      "RegretTracker.record",
+      "comparator(round)[0]",
+    );
     const v = createRegretTracker({
       dimension: 2,
       comparator: (_t, _lo, out) => out.fill(0),
@@ -110,7 +164,11 @@ describe("typed errors leave the tracker unchanged", () => {
     const t = createRegretTracker({ dimension: 2, quadratic: true });
     expectTyped(() => t.record(good(1)), "type", "RegretTracker.record", "lossObject");
     expectTyped(
-      () => t.record({ decision: new Float64Array(2), lossObject: quadraticLoss(new Float64Array([1])) }),
+      () =>
+        t.record({
+          decision: new Float64Array(2),
+          lossObject: quadraticLoss(new Float64Array([1])),
+        }),
       "dimension",
       "RegretTracker.record",
       "lossObject.dimension",
@@ -120,27 +178,37 @@ describe("typed errors leave the tracker unchanged", () => {
 
   it("linear comparator needs a gradient or a loss object", () => {
     const t = createRegretTracker({ dimension: 2, domain: simplexDomain(2) });
-    expectTyped(() => t.record({ decision: new Float64Array([0.5, 0.5]), loss: 1 }), "state", "RegretTracker.record", "gradient");
+    expectTyped(
+      () => t.record({ decision: new Float64Array([0.5, 0.5]), loss: 1 }),
+      "state",
+      "RegretTracker.record",
+      "gradient",
+    );
     expect(t.rounds).toBe(0);
   });
 
   it("random interleavings of good and bad rounds equal the good rounds alone (fast-check)", () => {
     fc.assert(
-      fc.property(fc.array(fc.tuple(fc.boolean(), fc.integer({ min: 0, max: bad.length - 1 })), { maxLength: 25 }), (plan) => {
-        const a = makeTracker();
-        const b = makeTracker();
-        let k = 0;
-        for (const [ok, which] of plan) {
-          if (ok) {
-            k++;
-            a.record(good(k));
-            b.record(good(k));
-          } else {
-            expect(() => a.record(bad[which][1](k + 1))).toThrow(RecedeError);
+      fc.property(
+        fc.array(fc.tuple(fc.boolean(), fc.integer({ min: 0, max: bad.length - 1 })), {
+          maxLength: 25,
+        }),
+        (plan) => {
+          const a = makeTracker();
+          const b = makeTracker();
+          let k = 0;
+          for (const [ok, which] of plan) {
+            if (ok) {
+              k++;
+              a.record(good(k));
+              b.record(good(k));
+            } else {
+              expect(() => a.record(bad[which][1](k + 1))).toThrow(RecedeError);
+            }
           }
-        }
-        expect(fingerprint(a)).toBe(fingerprint(b));
-      }),
+          expect(fingerprint(a)).toBe(fingerprint(b));
+        },
+      ),
       { numRuns: 100, seed: 3 },
     );
   });
@@ -148,21 +216,79 @@ describe("typed errors leave the tracker unchanged", () => {
   it("construction rejects bad options with named arguments", () => {
     const fn = "createRegretTracker";
     expectTyped(() => createRegretTracker({ dimension: 0 }), "range", fn, "dimension");
-    expectTyped(() => createRegretTracker({ dimension: 2, domain: simplexDomain(3) }), "dimension", fn, "domain.dimension");
+    expectTyped(
+      () => createRegretTracker({ dimension: 2, domain: simplexDomain(3) }),
+      "dimension",
+      fn,
+      "domain.dimension",
+    );
     expectTyped(() => createRegretTracker({ dimension: 2, linear: true }), "state", fn, "domain");
-    expectTyped(() => createRegretTracker({ dimension: 2, domain: simplexDomain(2), quadratic: true }), "domain", fn, "domain");
-    expectTyped(() => createRegretTracker({ dimension: 2, experts: [new Float64Array(3)] }), "dimension", fn, "experts[0]");
-    expectTyped(() => createRegretTracker({ dimension: 2, experts: [new Float64Array([0, Number.NaN])] }), "non-finite", fn, "experts[0][1]");
-    expectTyped(() => createRegretTracker({ dimension: 2, dynamics: (_t, u) => u }), "state", fn, "comparator");
-    expectTyped(() => createRegretTracker({ dimension: 2, history: "all" as "full" }), "range", fn, "history");
-    expectTyped(() => createRegretTracker({ dimension: 2, adaptiveWindow: 0 }), "range", fn, "adaptiveWindow");
+    expectTyped(
+      () => createRegretTracker({ dimension: 2, domain: simplexDomain(2), quadratic: true }),
+      "domain",
+      fn,
+      "domain",
+    );
+    expectTyped(
+      () => createRegretTracker({ dimension: 2, experts: [new Float64Array(3)] }),
+      "dimension",
+      fn,
+      "experts[0]",
+    );
+    expectTyped(
+      () => createRegretTracker({ dimension: 2, experts: [new Float64Array([0, Number.NaN])] }),
+      "non-finite",
+      fn,
+      "experts[0][1]",
+    );
+    expectTyped(
+      () => createRegretTracker({ dimension: 2, dynamics: (_t, u) => u }),
+      "state",
+      fn,
+      "comparator",
+    );
+    expectTyped(
+      () => createRegretTracker({ dimension: 2, history: "all" as "full" }),
+      "range",
+      fn,
+      "history",
+    );
+    expectTyped(
+      () => createRegretTracker({ dimension: 2, adaptiveWindow: 0 }),
+      "range",
+      fn,
+      "adaptiveWindow",
+    );
     expectTyped(() => createRegretTracker({ dimension: 2, window: 1.5 }), "range", fn, "window");
-    expectTyped(() => createRegretTracker({ dimension: 2, pathNorm: "l3" as "l2" }), "range", fn, "pathNorm");
+    expectTyped(
+      () => createRegretTracker({ dimension: 2, pathNorm: "l3" as "l2" }),
+      "range",
+      fn,
+      "pathNorm",
+    );
+  });
+
+  it('invalidRounds: "skip" counts and keeps the error instead of throwing', () => {
+    const t = createRegretTracker({ dimension: 2, invalidRounds: "skip" });
+    t.record({ decision: new Float64Array([1, 2]), loss: 1 });
+    t.record({ decision: new Float64Array([1, 2]), loss: Number.NaN });
+    t.record({ decision: new Float64Array(5), loss: 1 });
+    t.record({ decision: new Float64Array([1, 2]), loss: 2 });
+    expect(t.rounds).toBe(2);
+    expect(t.skippedRounds).toBe(2);
+    expect(t.lastError).toBeInstanceOf(RecedeError);
+    expect(t.lastError?.arg).toBe("decision");
+    expect(t.summary().cumulativeLoss).toBe(3);
   });
 
   it("hindsight comparators need the full history", () => {
     const t = createRegretTracker({ dimension: 2, history: "window", window: 4 });
     t.record(good(1));
-    expectTyped(() => t.regretAgainst(new Float64Array(2)), "state", "RegretTracker.regretAgainst", "history");
+    expectTyped(
+      () => t.regretAgainst(new Float64Array(2)),
+      "state",
+      "RegretTracker.regretAgainst",
+      "history",
+    );
   });
 });

@@ -16,6 +16,12 @@
  * the active set is identified after finitely many iterations and the Newton step on F is then
  * exact, so the method stops at the solution up to round-off.
  *
+ * A final polish fixes the identified active set exactly: coordinates within 10⁻⁸(1 + b_i − a_i)
+ * of a bound whose gradient points outward are set to that bound, the free coordinates are solved
+ * from A_FF u_F = −(b_F + A_FA u_A) by Cholesky, and the result is kept when it is feasible and
+ * its residual is no larger — so the KKT conditions then hold to round-off, not just to the
+ * tolerance.
+ *
  * Convergence criterion: ‖u − Π_{[a,b]}(u − ∇f(u))‖∞ ≤ tolerance · (1 + ‖b‖∞) (the projected-
  * gradient residual, zero exactly at the KKT point); otherwise it stops after `maxIterations` and
  * says so in `status`.
@@ -117,6 +123,7 @@ export class QuadraticSolver {
   private readonly delta: Float64Array;
   private readonly rhs: Float64Array;
   private readonly free: Int32Array;
+  private threshold = 0;
   private readonly report: QuadraticSolveReport = {
     status: "converged",
     value: 0,
@@ -168,6 +175,7 @@ export class QuadraticSolver {
     if (lo !== null && hi !== null) {
       for (let i = 0; i < d; i++) x[i] = clamp(x[i], lo[i], hi[i]);
       this.projectedNewton(A, oa, b, ob, lo, hi, x, tol, maxIt);
+      this.polish(A, oa, b, ob, lo, hi, x);
     }
     rep.value = this.objective(A, oa, b, ob, x);
     return rep;
@@ -178,6 +186,57 @@ export class QuadraticSolver {
     let q = 0;
     for (let i = 0; i < d; i++) q += x[i] * kernels.dot(d, A, oa + i * d, x, 0);
     return 0.5 * q + kernels.dot(d, b, ob, x, 0);
+  }
+
+  /** Fix the active set exactly and re-solve the free coordinates (see the module comment). */
+  private polish(
+    A: Float64Array,
+    oa: number,
+    b: Float64Array,
+    ob: number,
+    lo: Float64Array,
+    hi: Float64Array,
+    x: Float64Array,
+  ): void {
+    const d = this.d;
+    const { g, trial, rhs, free, sub, chol } = this;
+    const rep = this.report;
+    for (let i = 0; i < d; i++) g[i] = kernels.dot(d, A, oa + i * d, x, 0) + b[ob + i];
+    let nf = 0;
+    for (let i = 0; i < d; i++) {
+      const eps = 1e-8 * (1 + hi[i] - lo[i]);
+      if (lo[i] === hi[i]) trial[i] = lo[i];
+      else if (x[i] <= lo[i] + eps && g[i] >= 0) trial[i] = lo[i];
+      else if (x[i] >= hi[i] - eps && g[i] <= 0) trial[i] = hi[i];
+      else {
+        trial[i] = x[i];
+        free[nf++] = i;
+      }
+    }
+    if (nf > 0) {
+      for (let r = 0; r < nf; r++) {
+        const fi = free[r];
+        let s = -b[ob + fi];
+        for (let j = 0; j < d; j++) {
+          if (!isFree(free, nf, j)) s -= A[oa + fi * d + j] * trial[j];
+        }
+        rhs[r] = s;
+        for (let c = 0; c < nf; c++) sub[r * nf + c] = A[oa + fi * d + free[c]];
+      }
+      if (!kernels.cholesky(nf, sub, 0, chol, 0)) return;
+      kernels.choleskySolve(nf, chol, 0, rhs, 0);
+      for (let r = 0; r < nf; r++) {
+        const fi = free[r];
+        if (!(rhs[r] >= lo[fi] && rhs[r] <= hi[fi])) return;
+        trial[fi] = rhs[r];
+      }
+    }
+    const res = residualOf(d, A, oa, b, ob, lo, hi, trial);
+    if (res <= rep.residual) {
+      kernels.copy(d, trial, 0, x, 0);
+      rep.residual = res;
+      if (res <= this.threshold) rep.status = "converged";
+    }
   }
 
   private projectedNewton(
@@ -197,6 +256,7 @@ export class QuadraticSolver {
     let bmax = 0;
     for (let i = 0; i < d; i++) bmax = Math.max(bmax, Math.abs(b[ob + i]));
     const threshold = tol * (1 + bmax);
+    this.threshold = threshold;
     const epsilon0 = 1e-3;
     const sigma = 1e-4;
     rep.status = "max-iterations";
@@ -259,6 +319,29 @@ export class QuadraticSolver {
       kernels.copy(d, trial, 0, x, 0);
     }
   }
+}
+
+function isFree(free: Int32Array, nf: number, j: number): boolean {
+  for (let r = 0; r < nf; r++) if (free[r] === j) return true;
+  return false;
+}
+
+function residualOf(
+  d: number,
+  A: Float64Array,
+  oa: number,
+  b: Float64Array,
+  ob: number,
+  lo: Float64Array,
+  hi: Float64Array,
+  x: Float64Array,
+): number {
+  let res = 0;
+  for (let i = 0; i < d; i++) {
+    const g = kernels.dot(d, A, oa + i * d, x, 0) + b[ob + i];
+    res = Math.max(res, Math.abs(x[i] - clamp(x[i] - g, lo[i], hi[i])));
+  }
+  return res;
 }
 
 function clamp(v: number, lo: number, hi: number): number {

@@ -28,7 +28,12 @@ const genArb = fc.integer({ min: 1, max: 3 }).chain((d) => {
     width: vec(0.1, 3),
     experts: fc.array(vec(-1, 1), { minLength: 1, maxLength: 4 }),
     rounds: fc.array(
-      fc.record({ x: vec(-2, 3), g: vec(-5, 5), c: fc.double({ min: -3, max: 3, noNaN: true }), u: vec(-1, 1) }),
+      fc.record({
+        x: vec(-2, 3),
+        g: vec(-5, 5),
+        c: fc.double({ min: -3, max: 3, noNaN: true }),
+        u: vec(-1, 1),
+      }),
       { minLength: 1, maxLength: 50 },
     ),
   });
@@ -96,7 +101,10 @@ describe("streaming summaries equal the full-history computation", () => {
         const hi = g.lo.map((l, i) => l + g.width[i]);
         const tracker = createRegretTracker(options(g, "summary"));
         for (const r of g.rounds) {
-          tracker.record({ decision: Float64Array.from(r.x), lossObject: linearLoss(Float64Array.from(r.g), r.c) });
+          tracker.record({
+            decision: Float64Array.from(r.x),
+            lossObject: linearLoss(Float64Array.from(r.g), r.c),
+          });
         }
         const s = tracker.summary();
         const T = g.rounds.length;
@@ -122,7 +130,9 @@ describe("streaming summaries equal the full-history computation", () => {
         expect(Math.abs(s.cumulativeLoss - L)).toBeLessThanOrEqual(tol(L));
         expect(Math.abs((s.linear?.regret ?? Number.NaN) - linR)).toBeLessThanOrEqual(tol(linR));
         expect(Math.abs((s.experts?.regret ?? Number.NaN) - expR)).toBeLessThanOrEqual(tol(expR));
-        expect(Math.abs((s.dynamic?.regret ?? Number.NaN) - (L - U))).toBeLessThanOrEqual(tol(L - U));
+        expect(Math.abs((s.dynamic?.regret ?? Number.NaN) - (L - U))).toBeLessThanOrEqual(
+          tol(L - U),
+        );
         expect(Math.abs((s.dynamic?.pathLength ?? Number.NaN) - P)).toBeLessThanOrEqual(tol(P));
         expect(Math.abs((s.dynamic?.phiPathLength ?? Number.NaN) - V)).toBeLessThanOrEqual(tol(V));
 
@@ -142,8 +152,12 @@ describe("streaming summaries equal the full-history computation", () => {
           }
         }
         expect(s.adaptive?.window).toBe(g.w);
-        expect(Math.abs((s.adaptive?.linear?.regret ?? Number.NaN) - aLin)).toBeLessThanOrEqual(tol(aLin));
-        expect(Math.abs((s.adaptive?.experts?.regret ?? Number.NaN) - aExp)).toBeLessThanOrEqual(tol(aExp));
+        expect(Math.abs((s.adaptive?.linear?.regret ?? Number.NaN) - aLin)).toBeLessThanOrEqual(
+          tol(aLin),
+        );
+        expect(Math.abs((s.adaptive?.experts?.regret ?? Number.NaN) - aExp)).toBeLessThanOrEqual(
+          tol(aExp),
+        );
         // The reported start attains the maximum (ties may pick another start of equal value).
         const st = s.adaptive?.linear?.start ?? 0;
         const [atStart] = T < g.w ? [aLin] : windowRegret(g, hi, st - 1, st - 1 + g.w);
@@ -157,9 +171,14 @@ describe("streaming summaries equal the full-history computation", () => {
   it("summary, window and full histories give identical summaries; the full series ends at them", () => {
     fc.assert(
       fc.property(genArb, (g) => {
-        const trackers = (["summary", "window", "full"] as const).map((h) => createRegretTracker(options(g, h)));
+        const trackers = (["summary", "window", "full"] as const).map((h) =>
+          createRegretTracker(options(g, h)),
+        );
         for (const r of g.rounds) {
-          const input = { decision: Float64Array.from(r.x), lossObject: linearLoss(Float64Array.from(r.g), r.c) };
+          const input = {
+            decision: Float64Array.from(r.x),
+            lossObject: linearLoss(Float64Array.from(r.g), r.c),
+          };
           for (const t of trackers) t.record(input);
         }
         const json = trackers.map((t) => summaryToJson(t.summary()));
@@ -178,7 +197,9 @@ describe("streaming summaries equal the full-history computation", () => {
         const ws = trackers[1].series();
         for (let r = 0; r < ws.length; r++) {
           expect(ws.columns.round[r]).toBe(series.columns.round[series.length - ws.length + r]);
-          expect(ws.columns.linearRegret[r]).toBe(series.columns.linearRegret[series.length - ws.length + r]);
+          expect(ws.columns.linearRegret[r]).toBe(
+            series.columns.linearRegret[series.length - ws.length + r],
+          );
         }
       }),
       { numRuns: 100, seed: 5 },
@@ -193,10 +214,19 @@ describe("streaming summaries equal the full-history computation", () => {
             d: fc.constant(d),
             rounds: fc.array(
               fc.record({
-                m: fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: d * d, maxLength: d * d }),
-                b: fc.array(fc.double({ min: -2, max: 2, noNaN: true }), { minLength: d, maxLength: d }),
+                m: fc.array(fc.double({ min: -1, max: 1, noNaN: true }), {
+                  minLength: d * d,
+                  maxLength: d * d,
+                }),
+                b: fc.array(fc.double({ min: -2, max: 2, noNaN: true }), {
+                  minLength: d,
+                  maxLength: d,
+                }),
                 c: fc.double({ min: -1, max: 1, noNaN: true }),
-                x: fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: d, maxLength: d }),
+                x: fc.array(fc.double({ min: -1, max: 1, noNaN: true }), {
+                  minLength: d,
+                  maxLength: d,
+                }),
               }),
               { minLength: 1, maxLength: 30 },
             ),
@@ -217,8 +247,20 @@ describe("streaming summaries equal the full-history computation", () => {
             return quadraticLoss(A, { linear: Float64Array.from(r.b), constant: r.c });
           };
           const domain = boxed ? boxDomain(-0.3, 0.2, d) : undefined;
-          const summary = createRegretTracker({ dimension: d, domain, linear: false, quadratic: true, history: "summary" });
-          const full = createRegretTracker({ dimension: d, domain, linear: false, quadratic: true, history: "full" });
+          const summary = createRegretTracker({
+            dimension: d,
+            domain,
+            linear: false,
+            quadratic: true,
+            history: "summary",
+          });
+          const full = createRegretTracker({
+            dimension: d,
+            domain,
+            linear: false,
+            quadratic: true,
+            history: "full",
+          });
           for (const r of rounds) {
             const input = { decision: Float64Array.from(r.x), lossObject: mk(r) };
             summary.record(input);
@@ -228,10 +270,17 @@ describe("streaming summaries equal the full-history computation", () => {
           expect(q?.status).toBe("converged");
           if (!q) return;
           const direct = full.regretAgainst(q.argmin);
-          expect(Math.abs(q.regret - direct)).toBeLessThanOrEqual(1e-10 * (1 + Math.abs(direct)) * rounds.length);
+          expect(Math.abs(q.regret - direct)).toBeLessThanOrEqual(
+            1e-10 * (1 + Math.abs(direct)) * rounds.length,
+          );
           // Optimality from the history side: no other feasible point does better.
-          for (const probe of [new Float64Array(d), Float64Array.from(rounds[0].x, (v) => (boxed ? Math.max(-0.3, Math.min(0.2, v)) : v))]) {
-            expect(full.regretAgainst(probe)).toBeLessThanOrEqual(q.regret + 1e-9 * (1 + Math.abs(q.regret)));
+          for (const probe of [
+            new Float64Array(d),
+            Float64Array.from(rounds[0].x, (v) => (boxed ? Math.max(-0.3, Math.min(0.2, v)) : v)),
+          ]) {
+            expect(full.regretAgainst(probe)).toBeLessThanOrEqual(
+              q.regret + 1e-9 * (1 + Math.abs(q.regret)),
+            );
           }
         },
       ),
@@ -256,7 +305,10 @@ describe("bounded memory", () => {
     const windowed = make("window");
     const x = new Float64Array(d);
     const g = new Float64Array(d);
-    const lo = { value: (u: Float64Array) => g[0] * u[0] + g[1] * u[1], gradient: (_u: Float64Array, out: Float64Array) => out.set(g) ?? out };
+    const lo = {
+      value: (u: Float64Array) => g[0] * u[0] + g[1] * u[1],
+      gradient: (_u: Float64Array, out: Float64Array) => out.set(g) ?? out,
+    };
     const input = { decision: x, gradient: g, loss: 0, lossObject: lo };
     let bytesAt1000 = [0, 0];
     const T = 1_000_000;

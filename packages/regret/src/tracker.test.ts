@@ -24,7 +24,10 @@ describe("attaching to an Observable", () => {
     for (const l of losses.slice(0, 3)) {
       played.push(learner.decision().slice());
       const g = Float64Array.from(l);
-      learner.update({ gradient: g, loss: g.reduce((a, v, i) => a + v * learner.decision()[i], 0) });
+      learner.update({
+        gradient: g,
+        loss: g.reduce((a, v, i) => a + v * learner.decision()[i], 0),
+      });
     }
     detach();
     learner.update({ gradient: Float64Array.from(losses[3]), loss: 0 });
@@ -49,7 +52,13 @@ describe("attaching to an Observable", () => {
     const list = new ObserverList();
     const source = { observe: (l: (r: RoundRecord) => void) => list.add(l) };
     const tracker = trackRegret(source, { dimension: 1, history: "summary" });
-    const rec: RoundRecord = { round: 1, decision: new Float64Array([2]), loss: 3, gradient: undefined, lossObject: undefined };
+    const rec: RoundRecord = {
+      round: 1,
+      decision: new Float64Array([2]),
+      loss: 3,
+      gradient: undefined,
+      lossObject: undefined,
+    };
     list.emit(rec);
     list.emit(rec);
     tracker.detachAll();
@@ -78,7 +87,10 @@ describe("per-round series and export", () => {
       [0.5, 0.5],
     ];
     for (let t = 0; t < 3; t++) {
-      tracker.record({ decision: Float64Array.from(xs[t]), lossObject: linearLoss(Float64Array.from(gs[t])) });
+      tracker.record({
+        decision: Float64Array.from(xs[t]),
+        lossObject: linearLoss(Float64Array.from(gs[t])),
+      });
     }
     return { tracker, gs, xs };
   };
@@ -110,9 +122,15 @@ describe("per-round series and export", () => {
     expect(lines.length).toBe(s.length + 1);
     for (let r = 0; r < s.length; r++) {
       const cells = lines[r + 1].split(",").map(Number);
-      s.names.forEach((n, c) => expect(cells[c]).toBe(s.columns[n][r]));
+      s.names.forEach((n, c) => {
+        expect(cells[c]).toBe(s.columns[n][r]);
+      });
     }
-    const parsed = JSON.parse(seriesToJson(s)) as { names: string[]; length: number; columns: Record<string, number[]> };
+    const parsed = JSON.parse(seriesToJson(s)) as {
+      names: string[];
+      length: number;
+      columns: Record<string, number[]>;
+    };
     expect(parsed.length).toBe(3);
     for (const n of s.names) expect(parsed.columns[n]).toEqual(Array.from(s.columns[n]));
     const summary = JSON.parse(summaryToJson(tracker.summary()));
@@ -124,11 +142,13 @@ describe("per-round series and export", () => {
     const { tracker, gs, xs } = make();
     const u = new Float64Array([0.3, -0.7]);
     let expected = 0;
-    for (let t = 0; t < 3; t++) expected += gs[t][0] * (xs[t][0] - u[0]) + gs[t][1] * (xs[t][1] - u[1]);
+    for (let t = 0; t < 3; t++)
+      expected += gs[t][0] * (xs[t][0] - u[0]) + gs[t][1] * (xs[t][1] - u[1]);
     expect(tracker.regretAgainst(u)).toBeCloseTo(expected, 14);
     const seq = tracker.regretAgainstSequence((t, _lo, out) => out.fill(t));
     let e2 = 0;
-    for (let t = 0; t < 3; t++) e2 += gs[t][0] * (xs[t][0] - (t + 1)) + gs[t][1] * (xs[t][1] - (t + 1));
+    for (let t = 0; t < 3; t++)
+      e2 += gs[t][0] * (xs[t][0] - (t + 1)) + gs[t][1] * (xs[t][1] - (t + 1));
     expect(seq).toBeCloseTo(e2, 13);
   });
 
@@ -138,7 +158,10 @@ describe("per-round series and export", () => {
     expect(tracker.rounds).toBe(0);
     expect(tracker.series().length).toBe(0);
     expect(tracker.summary().linear?.regret).toBe(0);
-    tracker.record({ decision: new Float64Array(2), lossObject: linearLoss(new Float64Array([1, 0])) });
+    tracker.record({
+      decision: new Float64Array(2),
+      lossObject: linearLoss(new Float64Array([1, 0])),
+    });
     expect(tracker.summary().linear?.regret).toBe(2);
   });
 });

@@ -53,7 +53,8 @@ export type Expert = Float64Array | ComparatorSequence;
  * How much per-round history the tracker keeps.
  * - `"full"`: every round's series row, decision copy and loss object (hindsight evaluation of any
  *   comparator with {@link RegretTracker.regretAgainst}); memory O(T·d).
- * - `"window"`: the last `window` rounds only (ring buffers, no allocation per round).
+ * - `"window"`: the series rows and decisions of the last `window` rounds only (ring buffers, no
+ *   allocation per round).
  * - `"summary"`: no per-round rows; the summaries only (no allocation per round). Memory O(k + w·k)
  *   for k statistics and adaptive window w, independent of T.
  */
@@ -90,6 +91,13 @@ export interface RegretTrackerOptions {
   readonly pathNorm?: PathNorm;
   /** History kept per round. @defaultValue "full" */
   readonly history?: HistoryMode;
+  /**
+   * Keep each round's loss object (by reference) in `"full"` mode, for
+   * {@link RegretTracker.regretAgainst}. Turn it off when the source reuses one mutable loss object
+   * across rounds (then a stored reference would not describe its round).
+   * @defaultValue true
+   */
+  readonly retainLossObjects?: boolean;
   /** Rows kept in `"window"` mode. @defaultValue 1024 */
   readonly window?: number;
   /**
@@ -98,6 +106,23 @@ export interface RegretTrackerOptions {
    * single window [1, T]. Off when omitted.
    */
   readonly adaptiveWindow?: number;
+  /**
+   * What a round without a loss value means. `"error"`: it is a typed error unless a loss object
+   * supplies ℓ_t(x_t). `"linear"`: the losses are declared linear, ℓ_t(x) = ⟨g_t, x⟩, so an absent
+   * loss is taken as ⟨g_t, x_t⟩ — "absent" being `undefined`, or NaN (core's learners emit NaN when
+   * their feedback carried only a gradient). ±∞ is always an error.
+   * @defaultValue "error"
+   */
+  readonly lossWhenAbsent?: "error" | "linear";
+  /**
+   * What a round that fails validation does: `"throw"` a {@link RecedeError} (the tracker is
+   * unchanged), or `"skip"` it — the tracker is unchanged, {@link RegretTracker.skippedRounds}
+   * counts it and {@link RegretTracker.lastError} keeps the error. Use `"skip"` when the tracker
+   * observes a controller that must not be interrupted (an error thrown from an observer
+   * propagates out of the controller's step).
+   * @defaultValue "throw"
+   */
+  readonly invalidRounds?: "throw" | "skip";
   /** Tolerance of the box-constrained quadratic solve (see `minimizeQuadratic`). @defaultValue 1e-12 */
   readonly quadraticTolerance?: number;
   /** Iteration cap of the box-constrained quadratic solve. @defaultValue 200 */
@@ -137,7 +162,10 @@ export interface QuadraticRegretSummary {
   /** min_u Σ ℓ_t(u). */
   readonly bestValue: number;
   readonly argmin: Float64Array;
-  /** `"not-spd"` when Σ A_t is not positive definite (regret is then NaN). */
+  /**
+   * `"not-spd"` when Σ A_t is not positive definite (regret is then NaN) — e.g. in the first rounds
+   * of rank-deficient losses; the box-constrained solve also requires a positive definite sum.
+   */
   readonly status: QuadraticMinimumStatus;
   readonly iterations: number;
   readonly residual: number;
@@ -328,6 +356,10 @@ export class RegretTracker {
   private readonly lossObjects: RefStore<LossObject> | null;
   private readonly row: Float64Array;
   private readonly detachers: Array<() => void> = [];
+  private readonly skipInvalid: boolean;
+  private readonly lossLinear: boolean;
+  private skipped = 0;
+  private lastErr: RecedeError | undefined = undefined;
 
   constructor(options: RegretTrackerOptions) {
     const fn = "createRegretTracker";
@@ -420,6 +452,16 @@ export class RegretTracker {
       options.adaptiveWindow === undefined
         ? 0
         : requireInteger(fn, "adaptiveWindow", options.adaptiveWindow, 1);
+    const law = options.lossWhenAbsent ?? "error";
+    if (law !== "error" && law !== "linear") {
+      throw new RecedeError("range", fn, "lossWhenAbsent", '"error" or "linear"', law);
+    }
+    this.lossLinear = law === "linear";
+    const inv = options.invalidRounds ?? "throw";
+    if (inv !== "throw" && inv !== "skip") {
+      throw new RecedeError("range", fn, "invalidRounds", '"throw" or "skip"', inv);
+    }
+    this.skipInvalid = inv === "skip";
     this.qTol = options.quadraticTolerance ?? 1e-12;
     if (!(this.qTol > 0) || !Number.isFinite(this.qTol)) {
       throw new RecedeError("range", fn, "quadraticTolerance", "> 0", options.quadraticTolerance);
@@ -472,7 +514,10 @@ export class RegretTracker {
     const cap = ring ? windowRows : 256;
     this.rows = mode === "summary" ? null : new RowStore(names.length, cap, ring);
     this.decisions = mode === "summary" ? null : new RowStore(d, cap, ring);
-    this.lossObjects = mode === "summary" ? null : new RefStore<LossObject>(cap, ring);
+    this.lossObjects =
+      mode === "full" && (options.retainLossObjects ?? true)
+        ? new RefStore<LossObject>(cap, false)
+        : null;
     this.resetState();
   }
 
@@ -527,8 +572,29 @@ export class RegretTracker {
    * {@link RecedeError} and the tracker is unchanged. No allocation in `"summary"`/`"window"` modes.
    */
   record(input: RoundInput | RoundRecord): void {
-    this.stage(input);
+    if (this.skipInvalid) {
+      try {
+        this.stage(input);
+      } catch (e) {
+        this.skipped++;
+        this.lastErr =
+          e instanceof RecedeError
+            ? e
+            : new RecedeError("type", "RegretTracker.record", "round", "valid", String(e));
+        return;
+      }
+    } else this.stage(input);
     this.commit(input);
+  }
+
+  /** Rounds rejected under `invalidRounds: "skip"` (0 otherwise). */
+  get skippedRounds(): number {
+    return this.skipped;
+  }
+
+  /** The error of the last skipped round, if any. */
+  get lastError(): RecedeError | undefined {
+    return this.lastErr;
   }
 
   // ---------------------------------------------------------------- staging (may throw)
@@ -560,16 +626,33 @@ export class RegretTracker {
       throw new RecedeError("type", fn, "lossObject", "a LossObject (value, gradient)", lo);
     }
     let loss = input.loss;
-    if (loss === undefined) {
-      if (lo === undefined) {
-        throw new RecedeError("state", fn, "loss", "given (or a lossObject)", undefined);
-      }
-      loss = lo.value(x);
-      if (typeof loss !== "number" || !Number.isFinite(loss)) {
-        throw new RecedeError("non-finite", fn, "lossObject.value(decision)", "finite", loss);
+    let lossFromGradient = false;
+    if (loss === undefined || (this.lossLinear && lo === undefined && Number.isNaN(loss))) {
+      if (lo !== undefined) {
+        loss = lo.value(x);
+        if (typeof loss !== "number" || !Number.isFinite(loss)) {
+          throw new RecedeError("non-finite", fn, "lossObject.value(decision)", "finite", loss);
+        }
+      } else if (this.lossLinear) {
+        lossFromGradient = true; // ⟨g_t, x_t⟩, filled in once the gradient is validated
+        loss = 0;
+      } else {
+        throw new RecedeError(
+          "state",
+          fn,
+          "loss",
+          'given (or a lossObject, or lossWhenAbsent: "linear" with a gradient)',
+          loss,
+        );
       }
     } else if (typeof loss !== "number" || !Number.isFinite(loss)) {
-      throw new RecedeError("non-finite", fn, "loss", "a finite number", loss);
+      throw new RecedeError(
+        "non-finite",
+        fn,
+        "loss",
+        this.lossLinear ? "a finite number (or absent)" : "a finite number",
+        loss,
+      );
     }
     const st = this.st;
     st.fill(0);
@@ -604,6 +687,15 @@ export class RegretTracker {
         );
       }
     } else g = undefined;
+    if (lossFromGradient && g === undefined) {
+      throw new RecedeError(
+        "state",
+        fn,
+        "gradient",
+        'given when the loss is absent and lossWhenAbsent is "linear"',
+        undefined,
+      );
+    }
     if (g !== undefined) {
       let s2 = 0;
       let sinf = 0;
@@ -620,6 +712,7 @@ export class RegretTracker {
       st[S_G2] = s2;
       st[S_GINF2] = sinf * sinf;
       st[S_GX] = kernels.dot(d, g, 0, x, 0);
+      if (lossFromGradient) st[S_LOSS] = st[S_GX];
       if (this.linearOn) kernels.copy(d, g, 0, st, this.oG);
     }
 
@@ -1014,25 +1107,37 @@ export class RegretTracker {
 
   /**
    * Static regret against a user-supplied fixed comparator u, evaluated in hindsight on the stored
-   * loss objects: Σ_t ℓ_t(x_t) − Σ_t ℓ_t(u) (compensated sums). Needs `history: "full"` and a loss
-   * object in every round.
+   * loss objects: Σ_t ℓ_t(x_t) − Σ_t ℓ_t(u) (compensated sums). Needs `history: "full"`,
+   * `retainLossObjects` and a loss object in every round.
    */
   regretAgainst(u: Float64Array): number {
-    return this.regretAgainstSequence(() => u, "RegretTracker.regretAgainst", "u");
+    return this.hindsight(() => u, "RegretTracker.regretAgainst", "u");
   }
 
   /**
    * Dynamic regret against a user-supplied comparator sequence, in hindsight:
-   * Σ_t ℓ_t(x_t) − Σ_t ℓ_t(u_t). Needs `history: "full"` and a loss object in every round.
+   * Σ_t ℓ_t(x_t) − Σ_t ℓ_t(u_t). Same requirements as {@link RegretTracker.regretAgainst}.
    */
-  regretAgainstSequence(
-    sequence: ComparatorSequence,
-    fnName = "RegretTracker.regretAgainstSequence",
-    arg = "sequence",
-  ): number {
+  regretAgainstSequence(sequence: ComparatorSequence): number {
+    if (typeof sequence !== "function") {
+      throw new RecedeError(
+        "type",
+        "RegretTracker.regretAgainstSequence",
+        "sequence",
+        "a function",
+        sequence,
+      );
+    }
+    return this.hindsight(sequence, "RegretTracker.regretAgainstSequence", "sequence");
+  }
+
+  private hindsight(sequence: ComparatorSequence, fnName: string, arg: string): number {
     const d = this.dimension;
-    if (this.history !== "full" || this.lossObjects === null || this.rows === null) {
+    if (this.history !== "full" || this.rows === null) {
       throw new RecedeError("state", fnName, "history", '"full"', this.history);
+    }
+    if (this.lossObjects === null) {
+      throw new RecedeError("state", fnName, "retainLossObjects", "true", false);
     }
     const out = new Float64Array(d);
     const losses = new Float64Array(this.t);
@@ -1070,6 +1175,8 @@ export class RegretTracker {
 
   private resetState(): void {
     this.t = 0;
+    this.skipped = 0;
+    this.lastErr = undefined;
     this.gradRounds = 0;
     this.maxL2 = 0;
     this.maxLinf = 0;

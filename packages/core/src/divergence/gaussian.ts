@@ -20,7 +20,21 @@ import { type MatrixInput, toRowMajor } from "../matrixInput.js";
  * Diagonal expectation-parameter step, in place on `len` coordinates:
  * μ_i ← (1−γ)μ_i + γ μ̄_i,  σ²_i ← (1−γ)σ²_i + γ s²_i + γ(1−γ)(μ_i − μ̄_i)²,
  * where `targetMean` = μ̄ and `targetVariance` = s² (weighted variance about μ̄).
- * Pass `variance = null` to update the mean only (fixed covariance).
+ * Pass `variance = null` to update the mean only (fixed covariance). Symbols ↔ arguments:
+ * γ ↔ `gamma`, μ ↔ `mean`, σ² ↔ `variance`, μ̄ ↔ `targetMean`, s² ↔ `targetVariance`; each array
+ * is read from its offset over `len` entries. No validation, no allocation.
+ *
+ * Source: N. Wagener, C.-A. Cheng, J. Sacks, B. Boots, "An Online Learning Approach to Model
+ * Predictive Control", RSS, 2019 (the KL mirror step in expectation parameters; the rank-one
+ * term derived in MATH.md §3.4).
+ *
+ * @example
+ * ```ts
+ * const mean = new Float64Array([0]);
+ * const variance = new Float64Array([1]);
+ * gaussianDiagonalStep(1, 0.5, mean, 0, variance, 0, new Float64Array([2]), 0, new Float64Array([0.5]), 0);
+ * // mean = [1], variance = 0.5·1 + 0.5·0.5 + 0.25·4 = [1.75]
+ * ```
  */
 export function gaussianDiagonalStep(
   len: number,
@@ -52,7 +66,18 @@ export function gaussianDiagonalStep(
 /**
  * Full-covariance expectation-parameter step on a k-dimensional Gaussian, in place:
  * μ ← (1−γ)μ + γμ̄,  Σ ← (1−γ)Σ + γΣ_w + γ(1−γ)(μ − μ̄)(μ − μ̄)ᵀ (Σ, Σ_w row-major k×k).
- * The result is symmetrized.
+ * The result is symmetrized. Symbols ↔ arguments: γ ↔ `gamma`, μ ↔ `mean`, Σ ↔ `cov`,
+ * μ̄ ↔ `targetMean`, Σ_w ↔ `targetCov`. No validation, no allocation. Σ⁺ ⪰ 0 for γ ∈ [0, 1].
+ *
+ * Source: Wagener, Cheng, Sacks & Boots, RSS 2019 (as for {@link gaussianDiagonalStep}).
+ *
+ * @example
+ * ```ts
+ * const mean = new Float64Array([0, 0]);
+ * const cov = new Float64Array([1, 0, 0, 1]);
+ * gaussianFullStep(2, 1, mean, 0, cov, 0, new Float64Array([1, 2]), 0, new Float64Array([2, 1, 1, 2]), 0);
+ * // γ = 1 is moment matching: mean = [1, 2], cov = [2, 1, 1, 2]
+ * ```
  */
 export function gaussianFullStep(
   k: number,
@@ -160,7 +185,7 @@ export function klDiagonalGaussian(
  *
  * @example
  * ```ts
- * klGaussian([0, 0], [[1, 0], [0, 1]], [1, 0], [[2, 0], [0, 2]]); // ½(1 + 0.5 − 2 + 2 ln 2) ≈ 0.9431
+ * klGaussian([0, 0], [[1, 0], [0, 1]], [1, 0], [[2, 0], [0, 2]]); // ½(1 + 0.5 − 2 + 2 ln 2) ≈ 0.4431
  * ```
  */
 export function klGaussian(

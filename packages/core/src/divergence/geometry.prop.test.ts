@@ -8,6 +8,7 @@ import {
   positiveVector,
   simplexPoint,
   spdMatrix,
+  stepSize,
 } from "@recede/testkit";
 import fc from "fast-check";
 import { describe, it } from "vitest";
@@ -104,6 +105,18 @@ const rows: GeometryLawRow[] = [
     gradient: fc
       .tuple(finiteVector(3, { min: -2, max: 2 }), finiteVector(3, { min: -0.02, max: 2 }))
       .map(([a, b]) => Float64Array.from([...a, ...b])),
+    firstOrder: "exact",
+    tolerance: 1e-8,
+  },
+  {
+    name: "diagonal Gaussian (k=2, natural parameters)",
+    geometry: diagonalGaussian({ dimension: 2, parameters: "natural" }),
+    point: fc
+      .tuple(finiteVector(2, { min: -3, max: 3 }), positiveVector(2, 0.5, 10))
+      .map(([m, v]) => Float64Array.from([m[0] / v[0], m[1] / v[1], -0.5 / v[0], -0.5 / v[1]])),
+    // |g| ≤ 0.02 and η ≤ 1 keep the new variance v − ηg₂ + 2ημg₁ − η²g₁² > 0 for v ≥ 0.5, |μ| ≤ 3.
+    gradient: finiteVector(4, { min: -0.02, max: 0.02 }),
+    stepSize: stepSize(1e-3, 1),
     firstOrder: "exact",
     tolerance: 1e-8,
   },

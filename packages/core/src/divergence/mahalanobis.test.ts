@@ -89,6 +89,7 @@ describe("mahalanobis", () => {
       ndarray(big, [4, 4]).step(2, 2),
       ndarray(window, [3, 3]).lo(1, 1),
       { data: new Float64Array([4, 1, 1, 3]), rows: 2, cols: 2 },
+      new Float64Array([4, 1, 1, 3]),
     ];
     for (const v of views) {
       const geo = mahalanobis({ metric: v });
@@ -208,6 +209,10 @@ describe("mahalanobis", () => {
     catchRecedeError(() => mahalanobis({ metric: M, feasible: { kind: "ball", radius: 0 } }), {
       code: "range",
       arg: "feasible.radius",
+    });
+    catchRecedeError(() => mahalanobis({ metric: new Float64Array(3) }), {
+      code: "dimension",
+      arg: "metric",
     });
     catchRecedeError(() => mahalanobis({ metric: M, symmetryTolerance: -1 }), {
       code: "range",

@@ -14,9 +14,10 @@ import type { Geometry } from "./geometry.js";
 export interface MahalanobisOptions {
   /**
    * The metric M (d×d, symmetric positive definite): an `ndarray` view, `{ data, rows, cols }`
-   * (row-major) or an array of rows. It is copied; later changes to the input have no effect.
+   * (row-major), an array of rows, or a bare row-major Float64Array of length d². It is copied;
+   * later changes to the input have no effect.
    */
-  readonly metric: MatrixInput;
+  readonly metric: MatrixInput | Float64Array;
   /**
    * Feasible set X: a ball in the M-norm, {x : (x − c)ᵀM(x − c) ≤ r²}, onto which the M-norm
    * (Bregman) projection has the closed form c + (x − c)·min(1, r/‖x − c‖_M).
@@ -87,7 +88,7 @@ export function mahalanobis(options: MahalanobisOptions): MahalanobisGeometry {
       options.metric,
     );
   }
-  const m = toRowMajor(FN, "metric", options.metric);
+  const m = readMetric(options.metric);
   const d = m.rows;
   if (d < 1 || m.cols !== d) {
     throw new RecedeError(
@@ -154,6 +155,24 @@ export function mahalanobis(options: MahalanobisOptions): MahalanobisGeometry {
       f.center === undefined ? new Float64Array(d) : toVector(FN, "feasible.center", f.center, d);
   }
   return new MahalanobisImpl(d, a, l, center, radius, tol);
+}
+
+/** A MatrixInput, or a bare row-major Float64Array of length d² (d inferred). */
+function readMetric(metric: unknown): { data: Float64Array; rows: number; cols: number } {
+  if (metric instanceof Float64Array) {
+    const d = Math.round(Math.sqrt(metric.length));
+    if (d * d !== metric.length) {
+      throw new RecedeError(
+        "dimension",
+        FN,
+        "metric",
+        "a row-major Float64Array of length d²",
+        metric,
+      );
+    }
+    return toRowMajor(FN, "metric", { data: metric, rows: d, cols: d });
+  }
+  return toRowMajor(FN, "metric", metric as MatrixInput);
 }
 
 class MahalanobisImpl implements MahalanobisGeometry {

@@ -88,7 +88,9 @@ export function validateMirrorOptions(
  *
  * Every update validates the feedback, the step size and the new decision (finite, in the
  * domain) before committing; on a typed error the learner's state is unchanged. After each
- * update every observer receives a {@link RoundRecord} (decision = the x_t that was played).
+ * update every observer receives a {@link RoundRecord}: `decision` = the x_t that was played,
+ * `gradient` = the g_t used (evaluated from the loss object when the feedback had none), `loss` =
+ * the feedback's `loss`, else ℓ_t(x_t) from the loss object, else NaN. A round allocates nothing.
  *
  * Source: A. Nemirovski, D. Yudin, "Problem Complexity and Method Efficiency in Optimization",
  * 1983; A. Beck, M. Teboulle, Oper. Res. Lett., 2003; regret bound: T. Lattimore, C. Szepesvári,

@@ -83,11 +83,6 @@ export function matrix(
   return toRowMajor(fn, arg, v, rows, cols).data;
 }
 
-/** Whether x is finite. */
-export function isFinite(x: number): boolean {
-  return Number.isFinite(x);
-}
-
 /** Rows and columns of a matrix input (a flat Float64Array reports −1 for both). */
 export function shapeOf(v: MatrixLike): [number, number] {
   if (v instanceof Float64Array) return [-1, -1];

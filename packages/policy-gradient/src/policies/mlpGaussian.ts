@@ -284,6 +284,31 @@ export class MlpGaussianPolicy implements StochasticPolicy {
     this.backward(theta, out);
   }
 
+  /**
+   * One fused forward/reverse pass for regression on the mean action:
+   * out ← out + scale · J_θμ(x)ᵀ (μ_θ(x) − target); returns ‖μ_θ(x) − target‖².
+   */
+  addSquaredErrorGradient(
+    theta: Float64Array,
+    state: Float64Array,
+    so: number,
+    target: Float64Array,
+    to: number,
+    scale: number,
+    out: Float64Array,
+  ): number {
+    this.forward(theta, state, so);
+    const mo = this.aOff[this.sizes.length - 1];
+    let sq = 0;
+    for (let j = 0; j < this.actionSize; j++) {
+      const r = this.act[mo + j] - target[to + j];
+      sq += r * r;
+      this.del[mo + j] = scale * r;
+    }
+    this.backward(theta, out);
+    return sq;
+  }
+
   fisherVectorProduct(
     theta: Float64Array,
     states: Float64Array,

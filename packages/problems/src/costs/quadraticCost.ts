@@ -162,6 +162,8 @@ class QuadraticCostImpl implements QuadraticCost {
   private readonly qfDiag: boolean;
   private readonly dx: Float64Array;
   private readonly du: Float64Array;
+  private readonly qd: Float64Array;
+  private readonly rd: Float64Array;
 
   constructor(
     n: number,
@@ -191,6 +193,10 @@ class QuadraticCostImpl implements QuadraticCost {
     this.qfDiag = isDiagonal(n, qf);
     this.dx = new Float64Array(n);
     this.du = new Float64Array(Math.max(m, 1));
+    this.qd = new Float64Array(n);
+    this.rd = new Float64Array(m);
+    for (let i = 0; i < n; i++) this.qd[i] = q[i * n + i];
+    for (let j = 0; j < m; j++) this.rd[j] = r[j * m + j];
   }
 
   setStart(start: number): void {
@@ -211,6 +217,26 @@ class QuadraticCostImpl implements QuadraticCost {
     const m = this.controlSize;
     const rb = Math.min(this.start + t, this.refRows - 1) * n;
     const ub = Math.min(this.start + t, this.urefRows - 1) * m;
+    if (this.qDiag && this.rDiag) {
+      // fast path: diagonal weights, no scratch
+      const { qd, rd, ref, uref, isAngle, hasAngle } = this;
+      for (let k = 0; k < count; k++) {
+        const xb = xo + k * n;
+        const ubk = uo + k * m;
+        let c = 0;
+        for (let i = 0; i < n; i++) {
+          let d = x[xb + i] - ref[rb + i];
+          if (hasAngle && isAngle[i] === 1) d = wrapAngle(d);
+          c += qd[i] * d * d;
+        }
+        for (let j = 0; j < m; j++) {
+          const d = u[ubk + j] - uref[ub + j];
+          c += rd[j] * d * d;
+        }
+        out[oo + k] += c;
+      }
+      return;
+    }
     for (let k = 0; k < count; k++) {
       const c =
         this.form(n, this.q, this.qDiag, x, xo + k * n, this.ref, rb, this.dx, this.hasAngle) +

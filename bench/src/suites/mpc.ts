@@ -1,0 +1,196 @@
+/**
+ * MPC suite: control steps per second of the library's controllers (the `mppi` and `cem` presets
+ * of @recede/mpc) for K ∈ {256, 2000} samples and horizon H = 50 on the cart-pole (RK4) and the
+ * kinematic bicycle of @recede/problems, and the bytes allocated per control step after warm-up.
+ *
+ * Timing: each case is a closed loop on the model itself — `warmup` untimed control steps, then
+ * `steps` timed ones, each followed by advancing the state with the applied control; the figure is
+ * the median over `repetitions` of steps / wall time (performance.now around the whole loop).
+ *
+ * Allocation, two independent measurements after warm-up (method recorded in the JSON):
+ *  1. heap growth: (with `--expose-gc`) a full GC, then `allocSteps` control steps with no forced
+ *     GC, then `process.memoryUsage().heapUsed` again; bytes/step = growth / allocSteps. A young-
+ *     generation collection during the window would hide allocations, so (2) is also reported;
+ *  2. garbage collections observed (PerformanceObserver "gc" entries) during a long run of
+ *     `gcSteps` control steps: a step that allocated even a few bytes would trigger scavenges
+ *     over 1e4–1e5 steps; zero collections means (to the resolution of the young generation,
+ *     a few MB over the run) no allocation.
+ * Without `--expose-gc` (1) starts from the current heap and is marked `"gcForced": false`.
+ *
+ * @module
+ */
+import { PerformanceObserver } from "node:perf_hooks";
+import { type Controller, cem, mppi } from "@recede/mpc";
+import { bicycle, cartPole, type Problem } from "@recede/problems";
+import type { Suite, SuiteContext, SuiteOutput } from "../suite.js";
+
+const HORIZON = 50;
+const SEED = 11;
+
+interface Case {
+  readonly problem: string;
+  readonly optimizer: "mppi" | "cem";
+  readonly samples: number;
+}
+
+function noiseOf(p: Problem): number[] {
+  const out: number[] = [];
+  for (let j = 0; j < p.controlSize; j++) {
+    const half = 0.5 * (p.bounds.upper[j] - p.bounds.lower[j]);
+    out.push(Number.isFinite(half) ? 0.5 * half : 1);
+  }
+  return out;
+}
+
+function build(p: Problem, c: Case): Controller {
+  const common = {
+    dynamics: p.dynamics,
+    cost: p.cost,
+    horizon: HORIZON,
+    samples: c.samples,
+    bounds: p.bounds,
+    seed: SEED,
+  };
+  return c.optimizer === "mppi"
+    ? mppi({ ...common, noise: noiseOf(p), temperature: 1 })
+    : cem({ ...common, std: noiseOf(p), iterations: 1 });
+}
+
+function closedLoopSteps(ctrl: Controller, p: Problem, x: Float64Array, steps: number, t0: number): void {
+  for (let s = 0; s < steps; s++) {
+    const { control } = ctrl.act(x);
+    p.dynamics.step(x, 0, control, 0, 1, t0 + s);
+    // Restart from the initial state if the closed loop leaves the model's domain.
+    for (let i = 0; i < x.length; i++) {
+      if (!Number.isFinite(x[i])) {
+        x.set(p.initialState());
+        break;
+      }
+    }
+  }
+}
+
+function median(v: number[]): number {
+  const s = [...v].sort((a, b) => a - b);
+  const h = s.length >> 1;
+  return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
+}
+
+interface AllocResult {
+  readonly bytesPerStep: number;
+  readonly heapGrowthBytes: number;
+  readonly steps: number;
+  readonly gcForced: boolean;
+  readonly gcEventsDuringLongRun: number;
+  readonly longRunSteps: number;
+}
+
+async function measureAllocation(ctrl: Controller, p: Problem, allocSteps: number, gcSteps: number): Promise<AllocResult> {
+  const gc = (globalThis as { gc?: () => void }).gc;
+  const x = p.initialState();
+  closedLoopSteps(ctrl, p, x, 50, 0); // warm-up (JIT, lazily grown scratch)
+  if (gc) gc();
+  const h0 = process.memoryUsage().heapUsed;
+  closedLoopSteps(ctrl, p, x, allocSteps, 50);
+  const h1 = process.memoryUsage().heapUsed;
+  let events = 0;
+  const obs = new PerformanceObserver((list) => {
+    events += list.getEntries().length;
+  });
+  if (gc) gc();
+  // Let the observer register and drain the forced collection's entry before counting.
+  await new Promise((r) => setTimeout(r, 20));
+  obs.observe({ entryTypes: ["gc"] });
+  await new Promise((r) => setTimeout(r, 20));
+  events = 0;
+  closedLoopSteps(ctrl, p, x, gcSteps, 50 + allocSteps);
+  await new Promise((r) => setTimeout(r, 50));
+  obs.disconnect();
+  return {
+    bytesPerStep: (h1 - h0) / allocSteps,
+    heapGrowthBytes: h1 - h0,
+    steps: allocSteps,
+    gcForced: gc !== undefined,
+    gcEventsDuringLongRun: events,
+    longRunSteps: gcSteps,
+  };
+}
+
+/** The suite. */
+export const suite: Suite = {
+  name: "mpc",
+  description:
+    "Control steps/s of the mppi and cem presets (K ∈ {256, 2000}, H = 50) on cart-pole and bicycle, and bytes allocated per control step after warm-up",
+  async run(ctx: SuiteContext): Promise<SuiteOutput> {
+    const quick = ctx.quick;
+    const repetitions = quick ? 2 : 5;
+    const problems: Record<string, Problem> = { "cart-pole": cartPole(), bicycle: bicycle() };
+    const cases: Case[] = [];
+    for (const problem of ["cart-pole", "bicycle"]) {
+      for (const samples of [256, 2000]) {
+        for (const optimizer of ["mppi", "cem"] as const) cases.push({ problem, optimizer, samples });
+      }
+    }
+    const rows: Record<string, unknown>[] = [];
+    const lines: string[] = [];
+    for (const c of cases) {
+      const p = problems[c.problem];
+      const steps = Math.max(10, Math.round((quick ? 2e5 : 2e6) / c.samples / HORIZON));
+      const warmup = Math.max(5, steps >> 2);
+      const rates: number[] = [];
+      for (let r = 0; r < repetitions; r++) {
+        const ctrl = build(p, c);
+        const x = p.initialState();
+        closedLoopSteps(ctrl, p, x, warmup, 0);
+        const t0 = performance.now();
+        closedLoopSteps(ctrl, p, x, steps, warmup);
+        const dt = (performance.now() - t0) / 1000;
+        rates.push(steps / dt);
+      }
+      const stepsPerSecond = median(rates);
+      const sampleSteps = stepsPerSecond * c.samples * HORIZON;
+      ctx.log(`mpc: ${c.optimizer} ${c.problem} K=${c.samples}: ${stepsPerSecond.toFixed(1)} steps/s`);
+      const alloc = await measureAllocation(
+        build(p, c),
+        p,
+        quick ? 200 : 1000,
+        quick ? Math.round(2e6 / c.samples / HORIZON) : Math.round(4e7 / c.samples / HORIZON),
+      );
+      rows.push({
+        ...c,
+        horizon: HORIZON,
+        stepsPerSecond,
+        msPerStep: 1000 / stepsPerSecond,
+        sampleStepsPerSecond: sampleSteps,
+        repetitions: rates,
+        timedSteps: steps,
+        warmupSteps: warmup,
+        allocation: alloc,
+      });
+      lines.push(
+        `${c.optimizer.padEnd(4)} ${c.problem.padEnd(9)} K=${String(c.samples).padStart(4)} H=${HORIZON}: ` +
+          `${stepsPerSecond.toFixed(1).padStart(8)} steps/s (${(1000 / stepsPerSecond).toFixed(2)} ms/step, ` +
+          `${(sampleSteps / 1e6).toFixed(2)} M sample-steps/s); ` +
+          `heap ${alloc.bytesPerStep.toFixed(1)} B/step over ${alloc.steps} steps${alloc.gcForced ? "" : " (no --expose-gc)"}, ` +
+          `${alloc.gcEventsDuringLongRun} GCs in ${alloc.longRunSteps} steps`,
+      );
+    }
+    return {
+      result: {
+        horizon: HORIZON,
+        seed: SEED,
+        quick,
+        method: {
+          timing:
+            "closed loop on the model: warm-up steps, then timed steps; median over repetitions of steps / wall time",
+          allocation:
+            "(1) heapUsed growth over N control steps after warm-up and a forced full GC (needs --expose-gc), divided by N; (2) count of GC events (PerformanceObserver 'gc') during a long run",
+          exposeGc: typeof (globalThis as { gc?: unknown }).gc === "function",
+          node: process.version,
+        },
+        cases: rows,
+      },
+      lines,
+    };
+  },
+};

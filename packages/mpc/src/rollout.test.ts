@@ -1,0 +1,97 @@
+import type { Dynamics } from "@recede/core";
+import { createStream } from "@recede/core";
+import { cartPole } from "@recede/problems";
+import { bitEqual, catchRecedeError } from "@recede/testkit";
+import { describe, expect, it } from "vitest";
+import { linearQuadraticCost } from "./model.js";
+import { createRollout } from "./rollout.js";
+
+describe("createRollout", () => {
+  const cp = cartPole();
+  const k = 37;
+  const h = 9;
+  const samples = () => {
+    const s = new Float64Array(k * h);
+    createStream(4).fillNormal(s, 0, k * h);
+    for (let i = 0; i < s.length; i++) s[i] *= 15;
+    return s;
+  };
+
+  it("matches a per-sample rollout (count = 1 calls) exactly, slice by slice", () => {
+    const x0 = cp.initialState();
+    const eng = createRollout({
+      dynamics: cp.dynamics,
+      cost: cp.cost,
+      samples: k,
+      horizon: h,
+      lower: cp.bounds.lower,
+      upper: cp.bounds.upper,
+    });
+    const u = samples();
+    eng.clip(u, 0, 20);
+    eng.clip(u, 20, k - 20);
+    for (const v of u) expect(Math.abs(v)).toBeLessThanOrEqual(10);
+    eng.run(x0, u, 20, k - 20);
+    eng.run(x0, u, 0, 20);
+    const x = new Float64Array(4);
+    const c = new Float64Array(1);
+    for (let i = 0; i < k; i++) {
+      x.set(x0);
+      c[0] = 0;
+      for (let t = 0; t < h; t++) {
+        cp.cost.running(x, 0, u, i * h + t, 1, t, c, 0);
+        cp.dynamics.step(x, 0, u, i * h + t, 1, t);
+      }
+      cp.cost.terminal(x, 0, 1, c, 0);
+      expect(eng.costs[i]).toBe(c[0]);
+      expect(eng.failed[i]).toBe(0);
+    }
+  });
+
+  it("isolates samples whose model call throws or whose state turns non-finite", () => {
+    const picky: Dynamics = {
+      stateSize: 1,
+      controlSize: 1,
+      step(x, xo, u, uo, count) {
+        for (let i = 0; i < count; i++) if (u[uo + i] > 2) throw new Error("no");
+        for (let i = 0; i < count; i++)
+          x[xo + i] = u[uo + i] < -2 ? Number.NaN : x[xo + i] + u[uo + i];
+      },
+    };
+    const cost = linearQuadraticCost({ stateSize: 1, controlSize: 1, q: [[1]], r: [[1]] });
+    const eng = createRollout({ dynamics: picky, cost, samples: 4, horizon: 2 });
+    const u = Float64Array.from([1, 1, 3, 0, 0, -3, 0.5, 0.5]);
+    const failures = eng.run(Float64Array.of(0), u, 0, 4);
+    expect(failures).toBe(2);
+    expect(Array.from(eng.failed)).toEqual([0, 1, 1, 0]);
+    expect(eng.costs[1]).toBe(Number.POSITIVE_INFINITY);
+    expect(eng.costs[2]).toBe(Number.POSITIVE_INFINITY);
+    // Sample 0: x: 0 → 1 → 2; cost 0 + 1 + (1 + 1) + terminal 4 = 7.
+    expect(eng.costs[0]).toBe(7);
+    expect(eng.costs[3]).toBe(0.25 + (0.25 + 0.25) + 1);
+    // Deterministic: a second run gives the same bits.
+    const first = new Float64Array(eng.costs);
+    eng.run(Float64Array.of(0), u, 0, 4);
+    expect(bitEqual(first, eng.costs)).toBe(true);
+  });
+
+  it("validates sizes with typed errors", () => {
+    catchRecedeError(
+      () => createRollout({ dynamics: cp.dynamics, cost: cp.cost, samples: 0, horizon: 3 }),
+      { fn: "createRollout", arg: "samples" },
+    );
+    const wrong = linearQuadraticCost({
+      stateSize: 2,
+      controlSize: 1,
+      q: [
+        [1, 0],
+        [0, 1],
+      ],
+      r: [[1]],
+    });
+    catchRecedeError(
+      () => createRollout({ dynamics: cp.dynamics, cost: wrong, samples: 1, horizon: 3 }),
+      { fn: "createRollout", arg: "cost.stateSize" },
+    );
+  });
+});
