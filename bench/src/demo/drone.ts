@@ -147,7 +147,7 @@ export const DRONE_WEIGHTS: {
   /** Weight of the squared excess over the approach cone |p_x| ≤ 0.2 + 0.6·p_z. */
   cone: 20,
   /** Cost per step while airborne (p_z > 0): the price of time in the air (battery, schedule). */
-  airborne: 5,
+  airborne: 2,
   terminal: 10,
   /**
    * Height the cost aims at, m: slightly below the roof, so that reaching the pad (and touching

@@ -28,7 +28,7 @@
 import { spawnSync } from "node:child_process";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { PerformanceObserver } from "node:perf_hooks";
-import { mppi } from "@recede/mpc";
+import { createRollout, exponentialUtility, gaussianPlan, mppi, shiftPlan } from "@recede/mpc";
 import { bicycle, cartPole } from "@recede/problems";
 import type { Suite, SuiteContext, SuiteOutput } from "../suite.js";
 
@@ -93,25 +93,24 @@ async function child(model: ModelName, steps: number, control: boolean): Promise
     }
   };
   for (let s = 0; s < WARMUP; s++) stepOnce(s);
-  let gcs = 0;
-  let counting = false;
+  // Record every collection's start time; count those inside the timed window afterwards, so
+  // late delivery of the observer's entries cannot mix up the forced and the spontaneous ones.
+  const gcStarts: number[] = [];
   const obs = new PerformanceObserver((list) => {
-    if (counting) gcs += list.getEntries().length;
+    for (const e of list.getEntries()) gcStarts.push(e.startTime);
   });
   obs.observe({ entryTypes: ["gc"] });
   gc();
   gc();
-  await new Promise((r) => setImmediate(r)); // deliver the entries of the forced collections
-  counting = true;
   const h0 = process.memoryUsage().heapUsed;
   const t0 = performance.now();
   for (let s = 0; s < steps; s++) stepOnce(s);
-  const seconds = (performance.now() - t0) / 1000;
+  const t1 = performance.now();
   const h1 = process.memoryUsage().heapUsed;
-  await new Promise((r) => setImmediate(r));
-  await new Promise((r) => setTimeout(r, 20));
-  counting = false;
+  const seconds = (t1 - t0) / 1000;
+  await new Promise((r) => setTimeout(r, 50)); // let the observer deliver
   obs.disconnect();
+  const gcs = gcStarts.filter((t) => t >= t0 && t <= t1).length;
   gc();
   gc();
   const h2 = process.memoryUsage().heapUsed;
@@ -131,6 +130,87 @@ async function child(model: ModelName, steps: number, control: boolean): Promise
     exact: gcs === 0,
     retained_growth_after_gc_bytes: h2 - h0,
   };
+}
+
+/**
+ * Where the bytes come from: the same measurement (heapUsed growth over `calls` calls after
+ * warm-up, in the 128 MB young generation) for each generic part of the MPPI step called on its
+ * own, and for `act` as a whole.
+ */
+async function childParts(model: ModelName, calls: number): Promise<Record<string, number>> {
+  const gc = (globalThis as { gc?: () => void }).gc as () => void;
+  const p = model === "bicycle" ? bicycle() : cartPole();
+  const m = p.controlSize;
+  const noise = model === "bicycle" ? [0.75, 0.3] : [4];
+  const { lower, upper } = p.bounds;
+  const rollout = createRollout({
+    dynamics: p.dynamics,
+    cost: p.cost,
+    samples: SAMPLES,
+    horizon: HORIZON,
+    lower,
+    upper,
+  });
+  const plan = gaussianPlan({ std: noise }).create({
+    horizon: HORIZON,
+    controlSize: m,
+    samples: SAMPLES,
+    lower,
+    upper,
+    caller: "alloc",
+  });
+  const loss = exponentialUtility({ temperature: 1 });
+  const shift = shiftPlan();
+  const ctrl = mppi({
+    dynamics: p.dynamics,
+    cost: p.cost,
+    horizon: HORIZON,
+    samples: SAMPLES,
+    temperature: 1,
+    noise,
+    bounds: p.bounds,
+    seed: 3,
+  });
+  const { createStream } = await import("@recede/core");
+  const stream = createStream(1);
+  const buf = new Float64Array(SAMPLES * HORIZON * m);
+  const w = new Float64Array(SAMPLES);
+  const x0 = p.initialState();
+  const parts: Record<string, () => void> = {
+    "plan.sample (fillNormal + μ + σz)": () => plan.sample(stream, 0, SAMPLES, buf),
+    "rollout.clip": () => rollout.clip(buf, 0, SAMPLES),
+    "rollout.run": () => {
+      rollout.run(x0, buf, 0, SAMPLES);
+    },
+    "loss.weigh": () => {
+      loss.weigh(rollout.costs, SAMPLES, w);
+    },
+    "plan.update": () => plan.update(buf, SAMPLES, w, true, 1),
+    "shift.apply": () => shift.apply(plan, 1),
+    "controller.act (whole step)": () => {
+      ctrl.act(x0);
+    },
+  };
+  const out: Record<string, number> = {};
+  for (const [name, f] of Object.entries(parts)) {
+    for (let i = 0; i < calls; i++) f();
+    gc();
+    const h0 = process.memoryUsage().heapUsed;
+    for (let i = 0; i < calls; i++) f();
+    const h1 = process.memoryUsage().heapUsed;
+    out[name] = Number(((h1 - h0) / calls).toFixed(2));
+  }
+  return out;
+}
+
+function spawnParts(model: ModelName, calls: number): Record<string, number> {
+  const self = fileURLToPath(import.meta.url);
+  const args = [...CHILD_FLAGS, self, "--alloc-child", model, String(calls), "parts"];
+  const r = spawnSync(process.execPath, args, { encoding: "utf8" });
+  if (r.error || r.status !== 0) {
+    throw new Error(`alloc parts child failed (${model}): ${r.error?.message ?? r.stderr.trim()}`);
+  }
+  return JSON.parse(r.stdout.trim().split("\n").pop() as string) as Record<string, number>;
 }
 
 function spawnChild(model: ModelName, steps: number, control: boolean): ChildResult {
@@ -157,6 +237,17 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
       );
     }
   }
+  const parts: Record<string, Record<string, number>> = {};
+  const calls = ctx.quick ? 5_000 : 30_000;
+  for (const model of ["bicycle", "cart-pole"] as const) {
+    ctx.log(`${model}: bytes per call of each part (${calls} calls each)…`);
+    parts[model] = spawnParts(model, calls);
+    lines.push(
+      `${model} per part (B/call): ${Object.entries(parts[model])
+        .map(([k, v]) => `${k} ${v}`)
+        .join(", ")}`,
+    );
+  }
   return {
     result: {
       method:
@@ -167,6 +258,8 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
       steps,
       warmup: WARMUP,
       runs: results,
+      bytes_per_call_by_part: parts,
+      bytes_per_call_by_part_calls: calls,
     },
     lines,
   };
@@ -179,10 +272,14 @@ export const suite: Suite = {
   run,
 };
 
-// Child-process entry: node --expose-gc alloc.js --alloc-child <model> <steps> <library|control>
+// Child-process entry: node --expose-gc alloc.js --alloc-child <model> <steps> <library|control|parts>
 if (process.argv[2] === "--alloc-child" && import.meta.url === pathToFileURL(process.argv[1]).href) {
   const [model, steps, kind] = process.argv.slice(3);
-  child(model as ModelName, Number(steps), kind === "control").then(
+  const job =
+    kind === "parts"
+      ? childParts(model as ModelName, Number(steps))
+      : child(model as ModelName, Number(steps), kind === "control");
+  job.then(
     (r) => process.stdout.write(`${JSON.stringify(r)}\n`),
     (e: unknown) => {
       process.stderr.write(`${e instanceof Error ? e.stack : String(e)}\n`);

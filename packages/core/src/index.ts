@@ -22,6 +22,7 @@ export {
   type EuclideanGeometry,
   type EuclideanOptions,
   euclidean,
+  type SimplexSet,
 } from "./divergence/euclidean.js";
 export {
   gaussianDiagonalStep,

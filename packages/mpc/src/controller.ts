@@ -430,6 +430,7 @@ class GenericController implements Controller {
   private readonly record: MutableRecord;
   private readonly lossObject: LossObject | undefined;
   private readonly slices: number;
+  private readonly actName: string;
 
   constructor(
     readonly name: string,
@@ -451,6 +452,7 @@ class GenericController implements Controller {
     root: Stream,
   ) {
     const len = horizon * controlSize;
+    this.actName = `${name}.act`;
     this.slices = Math.ceil(samples / sliceSize);
     this.streams = [];
     this.initialStreams = [];
@@ -518,7 +520,7 @@ class GenericController implements Controller {
 
   act(state: Float64Array): ControlStep {
     const t0 = performance.now();
-    const fn = `${this.name}.act`;
+    const fn = this.actName;
     const n = this.stateSize;
     if (!(state instanceof Float64Array)) {
       throw new RecedeError("type", fn, "state", `a Float64Array of length ${n}`, state);
@@ -533,7 +535,8 @@ class GenericController implements Controller {
     const gammas = this.gammas;
     for (let it = 0; it < this.iterations; it++) {
       const g = typeof this.stepSize === "number" ? this.stepSize : this.stepSize(round, it);
-      gammas[it] = checkStep(fn, `stepSize(${round}, ${it})`, g);
+      if (typeof g !== "number" || !(g > 0 && g <= 1)) checkStep(fn, `stepSize(${round}, ${it})`, g);
+      gammas[it] = g as number;
     }
     const dist = this.distribution;
     const blocks = dist.blocks;

@@ -5,10 +5,9 @@
  * @packageDocumentation
  */
 
-export { EpisodeBatch } from "./environment/episodeBatch.js";
 export {
-  environmentFromProblem,
   type Evaluation,
+  environmentFromProblem,
   type InitialStateSampler,
   type ProblemEnvironmentOptions,
   RolloutEnvironment,
@@ -16,6 +15,7 @@ export {
   rolloutEnvironment,
   type StepDecider,
 } from "./environment/environment.js";
+export { EpisodeBatch } from "./environment/episodeBatch.js";
 export { GaeEstimator, type GaeOptions, gae } from "./estimators/gae.js";
 export {
   type GradientEstimator,

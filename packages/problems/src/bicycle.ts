@@ -200,6 +200,17 @@ export function bicycle(options: BicycleOptions = {}): BicycleProblem {
   const r = parseWeight(fn, "r", options.r ?? [0.1, 0.1], 2, "pd");
   const qf = parseWeight(fn, "qf", options.qf ?? [10, 10, 0, 1], 4, "psd");
   const obstacles = (options.obstacles ?? []).map((o) => ({ x: o.x, y: o.y, radius: o.radius }));
+  (options.obstacles ?? []).forEach((o, j) => {
+    if ((o.vx ?? 0) !== 0 || (o.vy ?? 0) !== 0) {
+      throw new RecedeError(
+        "range",
+        fn,
+        `obstacles[${j}]`,
+        "static (compose circleObstacles with dt for moving ones)",
+        "a moving obstacle",
+      );
+    }
+  });
   const horizon = requireInteger(fn, "horizon", options.horizon ?? 30, 1);
   const episodeLength = requireInteger(fn, "episodeLength", options.episodeLength ?? 150, 1);
   const posTol = requirePositive(fn, "positionTolerance", options.positionTolerance ?? 0.15);

@@ -4,6 +4,15 @@ import { cartPole } from "./cartPole.js";
 
 interface CartPoleFixture {
   samples: { state: number[]; force: number; xdd: number; thdd: number }[];
+  frictionSamples: {
+    state: number[];
+    force: number;
+    cartFriction: number;
+    poleFriction: number;
+    xdd: number;
+    thdd: number;
+    normalForce: number;
+  }[];
   uprightA: number[][];
   uprightB: number[];
   zohDt: number;
@@ -30,6 +39,24 @@ describe("cartPole against outside references", () => {
       expect(out[1]).toBeCloseTo(s.thdd, 12);
     }
     expect(worst).toBeLessThan(1e-12);
+  });
+
+  // Source: the same script's Newton–Euler model with Coulomb cart friction −μ_c|N_c|sgn(ẋ) (the
+  // normal force's sign resolved by re-solving) and viscous joint friction, for the coefficients
+  // of Barto et al. (1983) and a large pair (μ_c = 0.3, μ_p = 0.01); some samples have N_c < 0 and
+  // exercise the sign flip of R. V. Florian, "Correct Equations for the Dynamics of the Cart-Pole
+  // System", 2007.
+  it("friction accelerations match the Newton–Euler solve, including N_c < 0", () => {
+    const out = new Float64Array(2);
+    let negative = 0;
+    for (const s of fixture.frictionSamples) {
+      const q = cartPole({ cartFriction: s.cartFriction, poleFriction: s.poleFriction });
+      q.accelerations(Float64Array.from(s.state), 0, s.force, out, 0);
+      expect(Math.abs(out[0] - s.xdd)).toBeLessThan(1e-11);
+      expect(Math.abs(out[1] - s.thdd)).toBeLessThan(1e-11);
+      if (s.normalForce < 0) negative++;
+    }
+    expect(negative).toBeGreaterThan(0);
   });
 
   // Source: MATH.md §7.1 (derived there, checked numerically): d0 = l(4/3 − m_p/M) = 0.621212,

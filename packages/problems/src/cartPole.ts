@@ -9,7 +9,7 @@ import { quadraticCost } from "./costs/quadraticCost.js";
 import { stateLimitPenalty } from "./costs/stateLimitPenalty.js";
 import { sumCosts } from "./costs/sumCosts.js";
 import { parseVector, parseWeight, square, type WeightInput } from "./internal/options.js";
-import { Rk4Jacobian, type VectorField } from "./internal/rk4.js";
+import { Rk4Jacobian, Rk4Stepper, type VectorField } from "./internal/rk4.js";
 import { fmt, holdTest } from "./internal/success.js";
 import { type LinearQuadratic, type Problem, wrapAngle } from "./problem.js";
 
@@ -35,6 +35,17 @@ export interface CartPoleOptions {
    * @defaultValue 9.8 (Barto, Sutton & Anderson 1983)
    */
   readonly gravity?: number;
+  /**
+   * Cart–track Coulomb friction coefficient μ_c (Barto et al. used 0.0005), with the normal-force
+   * sign handled as in Florian (2007).
+   * @defaultValue 0 (frictionless)
+   */
+  readonly cartFriction?: number;
+  /**
+   * Pole–cart viscous friction coefficient μ_p (N·m·s; Barto et al. used 0.000002).
+   * @defaultValue 0 (frictionless)
+   */
+  readonly poleFriction?: number;
   /**
    * Force bound |F| ≤ forceLimit (N).
    * @defaultValue 10 (the ±10 N of Barto, Sutton & Anderson 1983)
@@ -114,6 +125,8 @@ export interface CartPoleParameters {
   readonly poleMass: number;
   readonly halfLength: number;
   readonly gravity: number;
+  readonly cartFriction: number;
+  readonly poleFriction: number;
   readonly forceLimit: number;
   readonly trackLimit: number;
 }
@@ -139,7 +152,15 @@ export interface CartPoleProblem extends Problem {
  * θ measured from upright, positive towards +x. Parameters of A. G. Barto, R. S. Sutton,
  * C. W. Anderson, "Neuronlike Adaptive Elements That Can Solve Difficult Learning Control Problems",
  * IEEE Trans. SMC 13(5), 1983: m_c = 1 kg, m_p = 0.1 kg, l = 0.5 m, g = 9.8 m/s², |F| ≤ 10 N,
- * |x| ≤ 2.4 m. Integrated with one classical RK4 step per Δt. The track limit is a soft penalty in
+ * |x| ≤ 2.4 m. Integrated with one classical RK4 step per Δt.
+ *
+ * Optional friction (`cartFriction` μ_c, `poleFriction` μ_p; default 0): Florian's corrected
+ * equations with Coulomb cart friction −μ_c N_c sgn(N_c ẋ), where the track's normal force
+ * N_c = M g − m_p l (θ̈ sin θ + θ̇² cos θ) may change sign (its sign is found by solving with N_c > 0
+ * assumed and re-solving if that fails), and viscous joint friction −μ_p θ̇ (MATH.md §7.1, with the
+ * denominator l(4/3 − (m_p cos θ / M)(cos θ − μ_c σ sin θ)) that a direct Newton–Euler solve gives).
+ * Static friction is not modelled (sgn(0) = 0). With friction the step uses a generic RK4 loop and
+ * the Jacobians use central differences with the friction sign frozen at the linearization point. The track limit is a soft penalty in
  * the cost (weight `trackWeight` on the squared excess plus `trackViolationCost` per step off the
  * track) and a hard requirement of the success test.
  *
@@ -154,6 +175,15 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
   const mp = requirePositive(fn, "poleMass", options.poleMass ?? 0.1);
   const l = requirePositive(fn, "halfLength", options.halfLength ?? 0.5);
   const g = requirePositive(fn, "gravity", options.gravity ?? 9.8);
+  const muC = options.cartFriction ?? 0;
+  const muP = options.poleFriction ?? 0;
+  for (const [arg, v] of [
+    ["cartFriction", muC],
+    ["poleFriction", muP],
+  ] as const) {
+    if (!Number.isFinite(v) || v < 0) throw new RecedeError("range", fn, arg, ">= 0", v);
+  }
+  const frictionless = muC === 0 && muP === 0;
   const forceLimit = requirePositive(fn, "forceLimit", options.forceLimit ?? 10);
   const trackLimit = requirePositive(fn, "trackLimit", options.trackLimit ?? 2.4);
   const trackWeight = options.trackWeight ?? 1000;
@@ -187,26 +217,100 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
   const cartAcc = (s: number, c: number, w: number, F: number, thdd: number): number =>
     (F + mpl * (w * w * s - thdd * c)) * invM;
   const acc = new Float64Array(2);
-  /** acc[0] ← ẍ, acc[1] ← θ̈. */
-  const accel = (th: number, w: number, F: number): void => {
+  /**
+   * acc[0] ← ẍ, acc[1] ← θ̈ with friction, for σ = sgn(N_c ẋ) given (Florian 2007, with the
+   * denominator (cos θ − μ_c σ sin θ) of MATH.md §7.1); returns the normal force N_c.
+   */
+  const accelSigned = (th: number, w: number, F: number, sig: number): number => {
     const s = Math.sin(th);
     const c = Math.cos(th);
-    const thdd = thetaAcc(s, c, w, F);
-    acc[0] = cartAcc(s, c, w, F, thdd);
+    const num =
+      g * s +
+      c * ((-F - mpl * w * w * (s + muC * sig * c)) * invM + muC * g * sig) -
+      (muP * w) / mpl;
+    const thdd = num / (l43 - lmpM * c * (c - muC * sig * s));
+    const nc = M * g - mpl * (thdd * s + w * w * c);
+    acc[0] = (F + mpl * (w * w * s - thdd * c) - muC * nc * sig) * invM;
     acc[1] = thdd;
+    return nc;
+  };
+  /** σ = sgn(N_c ẋ): assume N_c > 0, flip if the resulting N_c is negative (Florian 2007). */
+  const frictionSign = (th: number, w: number, v: number, F: number): number => {
+    const sv = v > 0 ? 1 : v < 0 ? -1 : 0;
+    if (sv === 0 || muC === 0) return sv;
+    return accelSigned(th, w, F, sv) >= 0 ? sv : -sv;
+  };
+  /** acc[0] ← ẍ, acc[1] ← θ̈ at (θ, θ̇, ẋ) under force F. */
+  const accel = (th: number, w: number, v: number, F: number): void => {
+    if (frictionless) {
+      const s = Math.sin(th);
+      const c = Math.cos(th);
+      const thdd = thetaAcc(s, c, w, F);
+      acc[0] = cartAcc(s, c, w, F, thdd);
+      acc[1] = thdd;
+      return;
+    }
+    accelSigned(th, w, F, frictionSign(th, w, v, F));
+  };
+  // central-difference partials for the friction model, with σ frozen at the base point
+  const fdBase = new Float64Array(4);
+  const fdPlus = new Float64Array(2);
+  const fdMinus = new Float64Array(2);
+
+  /** ∂(ẍ, θ̈)/∂(ẋ, θ, θ̇, F) by central differences with σ frozen (friction model only). */
+  const frictionPartials = (
+    x: Float64Array,
+    xo: number,
+    F: number,
+    fx: Float64Array,
+    fu: Float64Array,
+  ): void => {
+    for (let i = 0; i < 4; i++) fdBase[i] = x[xo + i];
+    const sig = frictionSign(fdBase[2], fdBase[3], fdBase[1], F);
+    fx.fill(0);
+    fu.fill(0);
+    fx[1] = 1;
+    fx[2 * 4 + 3] = 1;
+    // ẋ enters only through σ, which is frozen: ∂/∂ẋ = 0 (and ∂/∂x = 0)
+    for (const j of [2, 3, 4]) {
+      const base = j === 4 ? F : fdBase[j];
+      const step = 1e-6 * Math.max(1, Math.abs(base));
+      const at = (delta: number, out: Float64Array): void => {
+        const th = j === 2 ? fdBase[2] + delta : fdBase[2];
+        const w = j === 3 ? fdBase[3] + delta : fdBase[3];
+        accelSigned(th, w, j === 4 ? F + delta : F, sig);
+        out[0] = acc[0];
+        out[1] = acc[1];
+      };
+      at(step, fdPlus);
+      at(-step, fdMinus);
+      const dx = (fdPlus[0] - fdMinus[0]) / (2 * step);
+      const dth = (fdPlus[1] - fdMinus[1]) / (2 * step);
+      if (j === 4) {
+        fu[1] = dx;
+        fu[3] = dth;
+      } else {
+        fx[1 * 4 + j] = dx;
+        fx[3 * 4 + j] = dth;
+      }
+    }
   };
 
   const field: VectorField = {
     n: 4,
     m: 1,
     deriv(x, xo, u, uo, out, oo): void {
-      accel(x[xo + 2], x[xo + 3], u[uo]);
+      accel(x[xo + 2], x[xo + 3], x[xo + 1], u[uo]);
       out[oo] = x[xo + 1];
       out[oo + 1] = acc[0];
       out[oo + 2] = x[xo + 3];
       out[oo + 3] = acc[1];
     },
     partials(x, xo, u, uo, fx, fu): void {
+      if (!frictionless) {
+        frictionPartials(x, xo, u[uo], fx, fu);
+        return;
+      }
       const th = x[xo + 2];
       const w = x[xo + 3];
       const F = u[uo];
@@ -234,11 +338,16 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
     },
   };
   const lin = new Rk4Jacobian(field, dt);
+  const generic = new Rk4Stepper(field, dt);
   const h = dt;
   const dynamics: Dynamics = {
     stateSize: 4,
     controlSize: 1,
     step(x, xo, u, uo, count, _t): void {
+      if (!frictionless) {
+        generic.step(x, xo, u, uo, count);
+        return;
+      }
       for (let k = 0; k < count; k++) {
         const b = xo + 4 * k;
         const F = u[uo + k];
@@ -362,12 +471,21 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
     horizon,
     episodeLength,
     linearQuadratic: lq,
-    parameters: { cartMass: mc, poleMass: mp, halfLength: l, gravity: g, forceLimit, trackLimit },
+    parameters: {
+      cartMass: mc,
+      poleMass: mp,
+      halfLength: l,
+      gravity: g,
+      cartFriction: muC,
+      poleFriction: muP,
+      forceLimit,
+      trackLimit,
+    },
     initialState: () => new Float64Array(x0),
     success: (states, count) => assess(states, count).success,
     assess,
     accelerations(x, o, force, out, oo): void {
-      accel(x[o + 2], x[o + 3], force);
+      accel(x[o + 2], x[o + 3], x[o + 1], force);
       out[oo] = acc[0];
       out[oo + 1] = acc[1];
     },

@@ -22,6 +22,7 @@ export {
 } from "./cartPole.js";
 export {
   type CircleObstacle,
+  type CircleObstaclesCost,
   type CircleObstaclesOptions,
   circleObstacles,
 } from "./costs/circleObstacles.js";

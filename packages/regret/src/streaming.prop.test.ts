@@ -7,6 +7,7 @@ import { describe, expect, it } from "vitest";
 import { boxDomain } from "./domain.js";
 import { summaryToJson } from "./exportSeries.js";
 import { linearLoss, quadraticLoss } from "./losses.js";
+import { minimizeQuadratic } from "./quadraticMinimum.js";
 import { createRegretTracker, type RegretTrackerOptions } from "./tracker.js";
 
 interface Gen {
@@ -206,7 +207,7 @@ describe("streaming summaries equal the full-history computation", () => {
     );
   });
 
-  it("summed quadratics: the streamed minimum equals the full-history evaluation at the minimizer", () => {
+  it("summed quadratics: streamed minimum and adaptive regret equal the full-history computation", () => {
     fc.assert(
       fc.property(
         fc.integer({ min: 1, max: 3 }).chain((d) =>
@@ -233,7 +234,8 @@ describe("streaming summaries equal the full-history computation", () => {
           }),
         ),
         fc.boolean(),
-        ({ d, rounds }, boxed) => {
+        fc.integer({ min: 1, max: 8 }),
+        ({ d, rounds }, boxed, w) => {
           const mk = (r: (typeof rounds)[number]) => {
             // A_t = M Mᵀ + 0.1 I (SPD).
             const A = new Float64Array(d * d);
@@ -253,6 +255,7 @@ describe("streaming summaries equal the full-history computation", () => {
             linear: false,
             quadratic: true,
             history: "summary",
+            adaptiveWindow: w,
           });
           const full = createRegretTracker({
             dimension: d,
@@ -261,11 +264,37 @@ describe("streaming summaries equal the full-history computation", () => {
             quadratic: true,
             history: "full",
           });
-          for (const r of rounds) {
-            const input = { decision: Float64Array.from(r.x), lossObject: mk(r) };
+          const losses = rounds.map(mk);
+          rounds.forEach((r, t) => {
+            const input = { decision: Float64Array.from(r.x), lossObject: losses[t] };
             summary.record(input);
             full.record(input);
+          });
+          // Adaptive regret by brute force: every window's summed quadratic, minimized afresh.
+          const T = rounds.length;
+          let best = Number.NEGATIVE_INFINITY;
+          for (let st = 0; st + Math.min(w, T) <= T; st++) {
+            const e = st + Math.min(w, T);
+            const A = new Float64Array(d * d);
+            const b = new Float64Array(d);
+            let c = 0;
+            let L = 0;
+            for (let t = st; t < e; t++) {
+              for (let i = 0; i < d * d; i++) A[i] += losses[t].hessian[i];
+              for (let i = 0; i < d; i++) b[i] += losses[t].linear[i];
+              c += losses[t].constant;
+              L += losses[t].value(Float64Array.from(rounds[t].x));
+            }
+            const m = minimizeQuadratic(A, b, {
+              constant: c,
+              ...(boxed
+                ? { lower: new Float64Array(d).fill(-0.3), upper: new Float64Array(d).fill(0.2) }
+                : {}),
+            });
+            best = Math.max(best, L - m.value);
           }
+          const ad = summary.summary().adaptive?.quadratic?.regret ?? Number.NaN;
+          expect(Math.abs(ad - best)).toBeLessThanOrEqual(1e-9 * (1 + Math.abs(best)) * T);
           const q = summary.summary().quadratic;
           expect(q?.status).toBe("converged");
           if (!q) return;

@@ -48,6 +48,37 @@ describe("attaching to an Observable", () => {
     expect(s.cumulativeLoss).toBeCloseTo(mine, 14);
   });
 
+  it('lossWhenAbsent: "linear" tracks a learner fed gradients only (core emits loss NaN)', () => {
+    const make = () =>
+      mirrorDescent({ geometry: entropy({ dimension: 2 }), initial: [0.5, 0.5], stepSize: 0.3 });
+    const a = make();
+    const b = make();
+    const ta = createRegretTracker({
+      dimension: 2,
+      domain: simplexDomain(2),
+      lossWhenAbsent: "linear",
+    });
+    const tb = createRegretTracker({ dimension: 2, domain: simplexDomain(2) });
+    ta.attach(a);
+    tb.attach(b);
+    for (let t = 0; t < 20; t++) {
+      const g = new Float64Array([t % 3 === 0 ? 1 : 0, 0.4]);
+      a.update({ gradient: g });
+      const x = b.decision();
+      b.update({ gradient: g, loss: g[0] * x[0] + g[1] * x[1] });
+    }
+    expect(ta.rounds).toBe(20);
+    expect(summaryToJson(ta.summary())).toBe(summaryToJson(tb.summary()));
+    const strict = createRegretTracker({ dimension: 2, domain: simplexDomain(2) });
+    expect(() =>
+      strict.record({
+        decision: new Float64Array([0.5, 0.5]),
+        loss: Number.NaN,
+        gradient: new Float64Array(2),
+      }),
+    ).toThrow(/loss must be a finite number/);
+  });
+
   it("trackRegret attaches in one call; detachAll removes every subscription", () => {
     const list = new ObserverList();
     const source = { observe: (l: (r: RoundRecord) => void) => list.add(l) };

@@ -59,6 +59,30 @@ describe("euclidean", () => {
     expect(geo.contains(new Float64Array([-0.1, 0, 0]))).toBe(false);
   });
 
+  it("projects onto the simplex (Duchi, Shalev-Shwartz, Singer & Chandra 2008, worked by hand)", () => {
+    const geo = euclidean({ dimension: 3, feasible: { kind: "simplex" } });
+    const p = (v: number[]) => Array.from(geo.project(Float64Array.from(v), new Float64Array(3)));
+    // sorted (0.6, 0.3, −0.5): τ = (0.6 + 0.3 − 1)/2 = −0.05, so x = (0.65, 0.35, 0).
+    const a = p([0.6, 0.3, -0.5]);
+    expect(a[0]).toBeCloseTo(0.65, 15);
+    expect(a[1]).toBeCloseTo(0.35, 15);
+    expect(a[2]).toBe(0);
+    expect(p([0.5, 0.5, 0.5]).map((v) => v * 3)).toEqual(
+      [1, 1, 1].map((v) => expect.closeTo(v, 14)),
+    );
+    expect(p([5, 0, 0])).toEqual([1, 0, 0]);
+    expect(p([0.2, 0.3, 0.5])).toEqual([0.2, 0.3, 0.5].map((v) => expect.closeTo(v, 15)));
+    const big = euclidean({ dimension: 1000, feasible: { kind: "simplex", total: 3 } });
+    const v = Float64Array.from({ length: 1000 }, (_, i) => Math.sin(i) * 10);
+    const out = big.step(v, new Float64Array(1000), 1, new Float64Array(1000));
+    expect(big.contains(out)).toBe(true);
+    expect(big.feasibleKind).toBe("simplex");
+    catchRecedeError(() => euclidean({ dimension: 2, feasible: { kind: "simplex", total: 0 } }), {
+      code: "range",
+      arg: "feasible.total",
+    });
+  });
+
   it("D is half the squared distance and the mirror maps are the identity", () => {
     const geo = euclidean({ dimension: 2 });
     expect(geo.divergence(new Float64Array([1, 2]), new Float64Array([4, 6]))).toBe(12.5);

@@ -39,8 +39,22 @@ export interface BoxSet {
   readonly upper: VectorInput | number;
 }
 
+/**
+ * The scaled probability simplex {x : xᵢ ≥ 0, Σᵢ xᵢ = z}.
+ *
+ * Symbols ↔ options: z ↔ `total`.
+ */
+export interface SimplexSet {
+  readonly kind: "simplex";
+  /**
+   * The sum z > 0 of every feasible point.
+   * @defaultValue 1
+   */
+  readonly total?: number;
+}
+
 /** Feasible sets the Euclidean geometry projects onto in closed form. */
-export type EuclideanFeasibleSet = BallSet | BoxSet;
+export type EuclideanFeasibleSet = BallSet | BoxSet | SimplexSet;
 
 /** Options of {@link euclidean}. */
 export interface EuclideanOptions {
@@ -63,7 +77,7 @@ export interface EuclideanOptions {
 export interface EuclideanGeometry extends Geometry {
   readonly name: "euclidean";
   /** The feasible set's kind, or `"none"`. */
-  readonly feasibleKind: "none" | "ball" | "box";
+  readonly feasibleKind: "none" | "ball" | "box" | "simplex";
   /** out ← Π_X(x), the Euclidean projection onto the feasible set (a copy when there is none). */
   project(x: Float64Array, out: Float64Array): Float64Array;
 }
@@ -75,7 +89,9 @@ const FN = "euclidean";
  *
  * ψ(x) = ½‖x‖², D(x‖y) = ½‖x − y‖², ∇ψ = ∇ψ* = identity, and the mirror step is online (projected)
  * gradient descent:  x⁺ = Π_X(x_t − η g),  with Π_X the Euclidean projection
- * (ball: c + (x − c)·min(1, r/‖x − c‖); box: clamp each coordinate).
+ * (ball: c + (x − c)·min(1, r/‖x − c‖); box: clamp each coordinate; simplex: xᵢ = max(vᵢ − τ, 0)
+ * with the threshold τ found by sorting, O(d log d) — Duchi, Shalev-Shwartz, Singer & Chandra,
+ * "Efficient Projections onto the ℓ1-Ball for Learning in High Dimensions", ICML, 2008).
  * Symbols ↔ options: d ↔ `dimension`, X ↔ `feasible`.
  *
  * Source: M. Zinkevich, "Online Convex Programming and Generalized Infinitesimal Gradient Ascent",
@@ -98,7 +114,7 @@ export function euclidean(options: EuclideanOptions): EuclideanGeometry {
   const f = options.feasible;
   if (f === undefined) return new EuclideanImpl(d, 0, null, null, null, 0, tol);
   if (typeof f !== "object" || f === null) {
-    throw new RecedeError("type", FN, "feasible", '{ kind: "ball" } or { kind: "box" }', f);
+    throw new RecedeError("type", FN, "feasible", '{ kind: "ball" | "box" | "simplex", … }', f);
   }
   if (f.kind === "ball") {
     const r = requirePositive(FN, "feasible.radius", f.radius);
@@ -122,11 +138,15 @@ export function euclidean(options: EuclideanOptions): EuclideanGeometry {
     }
     return new EuclideanImpl(d, 2, null, lo, hi, 0, tol);
   }
+  if (f.kind === "simplex") {
+    const z = f.total === undefined ? 1 : requirePositive(FN, "feasible.total", f.total);
+    return new EuclideanImpl(d, 3, null, null, null, z, tol);
+  }
   throw new RecedeError(
     "type",
     FN,
     "feasible.kind",
-    '"ball" or "box"',
+    '"ball", "box" or "simplex"',
     (f as { kind?: unknown }).kind,
   );
 }
@@ -156,17 +176,19 @@ function boxBound(d: number, arg: string, v: unknown, side: -1 | 1): Float64Arra
 
 class EuclideanImpl implements EuclideanGeometry {
   readonly name = "euclidean" as const;
-  readonly feasibleKind: "none" | "ball" | "box";
+  readonly feasibleKind: "none" | "ball" | "box" | "simplex";
+  private readonly sorted: Float64Array | null;
   constructor(
     readonly dimension: number,
-    private readonly kind: 0 | 1 | 2,
+    private readonly kind: 0 | 1 | 2 | 3,
     private readonly center: Float64Array | null,
     private readonly lower: Float64Array | null,
     private readonly upper: Float64Array | null,
     private readonly radius: number,
     private readonly tol: number,
   ) {
-    this.feasibleKind = kind === 0 ? "none" : kind === 1 ? "ball" : "box";
+    this.feasibleKind = kind === 0 ? "none" : kind === 1 ? "ball" : kind === 2 ? "box" : "simplex";
+    this.sorted = kind === 3 ? new Float64Array(dimension) : null;
   }
 
   potential(x: Float64Array): number {
@@ -229,6 +251,22 @@ class EuclideanImpl implements EuclideanGeometry {
         const v = x[i];
         out[i] = v < lo[i] ? lo[i] : Math.min(v, hi[i]);
       }
+    } else if (this.kind === 3) {
+      // τ = (Σ_{j≤ρ} u_j − z)/ρ over the ρ largest entries u (sorted), the largest ρ with u_ρ > τ.
+      const u = this.sorted as Float64Array;
+      for (let i = 0; i < d; i++) u[i] = x[i];
+      u.sort();
+      const z = this.radius;
+      let cum = 0;
+      let tau = 0;
+      for (let j = 1; j <= d; j++) {
+        const uj = u[d - j];
+        cum += uj;
+        const t = (cum - z) / j;
+        if (uj > t) tau = t;
+        else break;
+      }
+      for (let i = 0; i < d; i++) out[i] = Math.max(x[i] - tau, 0);
     } else if (out !== x) for (let i = 0; i < d; i++) out[i] = x[i];
     return out;
   }
@@ -250,6 +288,15 @@ class EuclideanImpl implements EuclideanGeometry {
       const lo = this.lower as Float64Array;
       const hi = this.upper as Float64Array;
       for (let i = 0; i < d; i++) if (x[i] < lo[i] || x[i] > hi[i]) return false;
+    }
+    if (this.kind === 3) {
+      let s = 0;
+      for (let i = 0; i < d; i++) {
+        if (x[i] < 0) return false;
+        s += x[i];
+      }
+      // Rounding of the projection's sum grows with d: allow d·2⁻⁵³ on top of the tolerance.
+      return Math.abs(s - this.radius) <= (this.tol + d * 1.1102230246251565e-16) * this.radius;
     }
     return true;
   }

@@ -51,6 +51,13 @@ const rows: GeometryLawRow[] = [
     firstOrder: "none",
   },
   {
+    name: "euclidean (simplex, total 2)",
+    geometry: euclidean({ dimension: 4, feasible: { kind: "simplex", total: 2 } }),
+    point: simplexPoint(4).map((p) => p.map((v) => 2 * v)),
+    gradient: finiteVector(4, { min: -20, max: 20 }),
+    firstOrder: "none",
+  },
+  {
     name: "mahalanobis (random SPD, ℝ³)",
     geometry: mahalanobis({ metric: { data: metric3, rows: 3, cols: 3 } }),
     point: finiteVector(3),

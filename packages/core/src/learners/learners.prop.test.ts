@@ -1,5 +1,6 @@
 import {
   adaGradStep,
+  diagonalGaussian,
   dynamicMirrorDescent,
   entropy,
   euclidean,
@@ -12,6 +13,7 @@ import {
 import {
   bitEqual,
   boundedGradient,
+  finiteVector,
   type LearnerLawRow,
   learnerLaws,
   simplexPoint,
@@ -53,6 +55,28 @@ const rows: LearnerLawRow[] = [
       }),
     gradient: boundedGradient(2, 5),
     quadratic: { target: new Float64Array([0.2, -0.9]), rounds: 400, tolerance: 1e-3 },
+  },
+  {
+    name: "mirrorDescent / euclidean simplex (projected OGD)",
+    create: () =>
+      mirrorDescent({
+        geometry: euclidean({ dimension: 3, feasible: { kind: "simplex" } }),
+        initial: [1, 0, 0],
+        stepSize: 0.2,
+      }),
+    gradient: boundedGradient(3, 10),
+    quadratic: { target: new Float64Array([0.5, 0.2, 0.3]), rounds: 200, tolerance: 1e-10 },
+  },
+  {
+    name: "mirrorDescent / diagonal Gaussian (natural parameters)",
+    create: () =>
+      mirrorDescent({
+        geometry: diagonalGaussian({ dimension: 1, parameters: "natural" }),
+        initial: [0, -0.5],
+        stepSize: 0.5,
+      }),
+    // From μ = 0, σ² = 1, twelve steps of η|g| ≤ 0.025 keep σ² = s − μ² ≥ 0.7 − 0.09 > 0.
+    gradient: finiteVector(2, { min: -0.05, max: 0.05 }),
   },
   {
     name: "mirrorDescent / mahalanobis (Newton, η=1)",

@@ -86,11 +86,17 @@ export interface Evaluation {
   readonly std: number;
 }
 
-function perComponent(fn: string, arg: string, x: number | Float64Array | undefined, n: number): Float64Array {
+function perComponent(
+  fn: string,
+  arg: string,
+  x: number | Float64Array | undefined,
+  n: number,
+): Float64Array {
   const out = new Float64Array(n);
   if (x === undefined) return out;
   if (typeof x === "number") {
-    if (!Number.isFinite(x) || x < 0) throw new RecedeError("range", fn, arg, "a finite number >= 0", x);
+    if (!Number.isFinite(x) || x < 0)
+      throw new RecedeError("range", fn, arg, "a finite number >= 0", x);
     out.fill(x);
     return out;
   }
@@ -201,8 +207,13 @@ export class RolloutEnvironment {
    */
   collectWith(decider: StepDecider, stream: Stream, batch: EpisodeBatch): EpisodeBatch {
     const fn = "RolloutEnvironment.collectWith";
-    if (!(batch instanceof EpisodeBatch)) throw new RecedeError("type", fn, "batch", "an EpisodeBatch", batch);
-    if (batch.horizon !== this.horizon || batch.stateSize !== this.stateSize || batch.controlSize !== this.controlSize) {
+    if (!(batch instanceof EpisodeBatch))
+      throw new RecedeError("type", fn, "batch", "an EpisodeBatch", batch);
+    if (
+      batch.horizon !== this.horizon ||
+      batch.stateSize !== this.stateSize ||
+      batch.controlSize !== this.controlSize
+    ) {
       throw new RecedeError(
         "dimension",
         fn,
@@ -252,12 +263,23 @@ export class RolloutEnvironment {
    * Roll out the stochastic policy π_θ: a_t ∼ π_θ(· | s_t), recording ln π_θ(a_t | s_t).
    * Returns `batch`.
    */
-  collect(policy: StochasticPolicy, theta: Float64Array, stream: Stream, batch: EpisodeBatch): EpisodeBatch {
+  collect(
+    policy: StochasticPolicy,
+    theta: Float64Array,
+    stream: Stream,
+    batch: EpisodeBatch,
+  ): EpisodeBatch {
     const fn = "RolloutEnvironment.collect";
     this.checkPolicy(fn, policy);
     requireFiniteArray(fn, "theta", theta, policy.parameterCount);
     if (batch.actionSize !== policy.actionSize) {
-      throw new RecedeError("dimension", fn, "batch.actionSize", `${policy.actionSize} (the policy's)`, batch.actionSize);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "batch.actionSize",
+        `${policy.actionSize} (the policy's)`,
+        batch.actionSize,
+      );
     }
     return this.collectWith(
       {
@@ -274,7 +296,13 @@ export class RolloutEnvironment {
   /** Throw unless `policy` fits this environment's state and action spaces. */
   checkPolicy(fn: string, policy: StochasticPolicy): void {
     if (policy.stateSize !== this.stateSize) {
-      throw new RecedeError("dimension", fn, "policy.stateSize", `${this.stateSize}`, policy.stateSize);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "policy.stateSize",
+        `${this.stateSize}`,
+        policy.stateSize,
+      );
     }
     if (policy.kind === "categorical") {
       if (this.discreteControls === null || policy.actionCount !== this.actionCount) {
@@ -291,7 +319,9 @@ export class RolloutEnvironment {
         "dimension",
         fn,
         "policy.actionSize",
-        this.discreteControls !== null ? "a categorical policy for this discrete environment" : `${this.controlSize}`,
+        this.discreteControls !== null
+          ? "a categorical policy for this discrete environment"
+          : `${this.controlSize}`,
         policy.actionSize,
       );
     }
@@ -308,7 +338,13 @@ export class RolloutEnvironment {
     if (typeof actor !== "object" || actor === null || typeof actor.act !== "function") {
       throw new RecedeError("type", fn, "actor", "an object with act(state)", actor);
     }
-    const batch = new EpisodeBatch(episodes, this.horizon, this.stateSize, this.controlSize, this.controlSize);
+    const batch = new EpisodeBatch(
+      episodes,
+      this.horizon,
+      this.stateSize,
+      this.controlSize,
+      this.controlSize,
+    );
     const saved = this.discreteControls;
     const m = this.controlSize;
     const n = this.stateSize;
@@ -383,7 +419,8 @@ export class RolloutEnvironment {
  */
 export function rolloutEnvironment(options: RolloutEnvironmentOptions): RolloutEnvironment {
   const fn = "rolloutEnvironment";
-  if (typeof options !== "object" || options === null) throw new RecedeError("type", fn, "options", "an object", options);
+  if (typeof options !== "object" || options === null)
+    throw new RecedeError("type", fn, "options", "an object", options);
   const { dynamics, cost } = options;
   if (typeof dynamics !== "object" || dynamics === null || typeof dynamics.step !== "function") {
     throw new RecedeError("type", fn, "dynamics", "a Dynamics object", dynamics);
@@ -394,7 +431,13 @@ export function rolloutEnvironment(options: RolloutEnvironmentOptions): RolloutE
   const n = dynamics.stateSize;
   const m = dynamics.controlSize;
   if (cost.stateSize !== n || cost.controlSize !== m) {
-    throw new RecedeError("dimension", fn, "cost", `sized n=${n}, m=${m} like the dynamics`, `n=${cost.stateSize}, m=${cost.controlSize}`);
+    throw new RecedeError(
+      "dimension",
+      fn,
+      "cost",
+      `sized n=${n}, m=${m} like the dynamics`,
+      `n=${cost.stateSize}, m=${cost.controlSize}`,
+    );
   }
   const horizon = requireInteger(fn, "horizon", options.horizon, 1);
   const lower = new Float64Array(m).fill(Number.NEGATIVE_INFINITY);
@@ -402,14 +445,32 @@ export function rolloutEnvironment(options: RolloutEnvironmentOptions): RolloutE
   if (options.bounds !== undefined) {
     const b = options.bounds;
     if (!(b.lower instanceof Float64Array) || b.lower.length !== m) {
-      throw new RecedeError("dimension", fn, "bounds.lower", `a Float64Array of length ${m}`, b.lower);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "bounds.lower",
+        `a Float64Array of length ${m}`,
+        b.lower,
+      );
     }
     if (!(b.upper instanceof Float64Array) || b.upper.length !== m) {
-      throw new RecedeError("dimension", fn, "bounds.upper", `a Float64Array of length ${m}`, b.upper);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "bounds.upper",
+        `a Float64Array of length ${m}`,
+        b.upper,
+      );
     }
     for (let j = 0; j < m; j++) {
       if (Number.isNaN(b.lower[j]) || Number.isNaN(b.upper[j]) || b.lower[j] > b.upper[j]) {
-        throw new RecedeError("range", fn, `bounds[${j}]`, "lower <= upper", `[${b.lower[j]}, ${b.upper[j]}]`);
+        throw new RecedeError(
+          "range",
+          fn,
+          `bounds[${j}]`,
+          "lower <= upper",
+          `[${b.lower[j]}, ${b.upper[j]}]`,
+        );
       }
       lower[j] = b.lower[j];
       upper[j] = b.upper[j];
@@ -424,10 +485,22 @@ export function rolloutEnvironment(options: RolloutEnvironmentOptions): RolloutE
   let table: Float64Array | null = null;
   if (options.controls !== undefined) {
     const t = toRowMajor(fn, "controls", options.controls, -1, m);
-    if (t.rows < 2) throw new RecedeError("dimension", fn, "controls", "at least 2 rows", `${t.rows} rows`);
+    if (t.rows < 2)
+      throw new RecedeError("dimension", fn, "controls", "at least 2 rows", `${t.rows} rows`);
     table = t.data;
   }
-  return new RolloutEnvironment(dynamics, cost, lower, upper, horizon, x0, x0Std, sampler, wStd, table);
+  return new RolloutEnvironment(
+    dynamics,
+    cost,
+    lower,
+    upper,
+    horizon,
+    x0,
+    x0Std,
+    sampler,
+    wStd,
+    table,
+  );
 }
 
 /** Options of {@link environmentFromProblem}: everything of {@link RolloutEnvironmentOptions} but the model. */
@@ -459,8 +532,15 @@ export interface ProblemEnvironmentOptions {
  * const env = environmentFromProblem(pendulum(), { initialStateStd: 0.05 });
  * ```
  */
-export function environmentFromProblem(problem: Problem, options: ProblemEnvironmentOptions = {}): RolloutEnvironment {
-  if (typeof problem !== "object" || problem === null || typeof problem.initialState !== "function") {
+export function environmentFromProblem(
+  problem: Problem,
+  options: ProblemEnvironmentOptions = {},
+): RolloutEnvironment {
+  if (
+    typeof problem !== "object" ||
+    problem === null ||
+    typeof problem.initialState !== "function"
+  ) {
     throw new RecedeError("type", "environmentFromProblem", "problem", "a Problem", problem);
   }
   return rolloutEnvironment({

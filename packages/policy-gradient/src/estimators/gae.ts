@@ -60,7 +60,13 @@ export class GaeEstimator implements GradientEstimator {
   private times: Int32Array = new Int32Array(0);
 
   /** Use {@link gae}; the constructor trusts validated options. */
-  constructor(discount: number, lambda: number, value: ValueModel | null, bootstrap: boolean, dw: boolean) {
+  constructor(
+    discount: number,
+    lambda: number,
+    value: ValueModel | null,
+    bootstrap: boolean,
+    dw: boolean,
+  ) {
     this.discount = discount;
     this.lambda = lambda;
     this.valueModel = value;
@@ -80,7 +86,8 @@ export class GaeEstimator implements GradientEstimator {
 
   score(batch: EpisodeBatch): ScoredSamples {
     const fn = "GaeEstimator.score";
-    if (!(batch instanceof EpisodeBatch)) throw new RecedeError("type", fn, "batch", "an EpisodeBatch", batch);
+    if (!(batch instanceof EpisodeBatch))
+      throw new RecedeError("type", fn, "batch", "an EpisodeBatch", batch);
     const E = batch.episodes;
     const T = batch.horizon;
     const n = batch.stateSize;
@@ -88,7 +95,13 @@ export class GaeEstimator implements GradientEstimator {
     if (this.valueModel === null) {
       this.valueModel = linearValueFunction({ stateSize: n, horizon: T });
     } else if (this.valueModel.stateSize !== n) {
-      throw new RecedeError("dimension", fn, "batch.stateSize", `${this.valueModel.stateSize} (the value model's)`, n);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "batch.stateSize",
+        `${this.valueModel.stateSize} (the value model's)`,
+        n,
+      );
     }
     const V = this.valueModel;
     if (this.values.length !== N) {
@@ -159,7 +172,12 @@ export function gae(options: GaeOptions = {}): GaeEstimator {
   const discount = requireUnitHalfOpen(fn, "discount", options.discount ?? 0.99);
   const lambda = requireUnitClosed(fn, "lambda", options.lambda ?? 0.95);
   const value = options.value ?? null;
-  if (value !== null && (typeof value !== "object" || typeof value.predict !== "function" || typeof value.fit !== "function")) {
+  if (
+    value !== null &&
+    (typeof value !== "object" ||
+      typeof value.predict !== "function" ||
+      typeof value.fit !== "function")
+  ) {
     throw new RecedeError("type", fn, "value", "a ValueModel", value);
   }
   const bootstrap = options.bootstrapAtHorizon ?? false;

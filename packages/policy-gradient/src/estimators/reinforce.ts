@@ -14,7 +14,11 @@ import type { ValueModel } from "./valueFunction.js";
  * Discounted returns-to-go G_t = Σ_{k=t}^{T−1} γ^{k−t} c_k + γ^{T−t} c_H(x_T) for every sample of
  * `batch` (sample i = e·T + t), written into `out` (length E·T). Returns `out`.
  */
-export function returnsToGo(batch: EpisodeBatch, discount: number, out: Float64Array): Float64Array {
+export function returnsToGo(
+  batch: EpisodeBatch,
+  discount: number,
+  out: Float64Array,
+): Float64Array {
   const T = batch.horizon;
   for (let e = 0; e < batch.episodes; e++) {
     let g = batch.terminalCosts[e];
@@ -71,7 +75,11 @@ export class ReinforceEstimator implements GradientEstimator {
   private times: Int32Array = new Int32Array(0);
 
   /** Use {@link reinforce}; the constructor trusts validated options. */
-  constructor(discount: number, baseline: "none" | "mean" | ValueModel, discountWeighting: boolean) {
+  constructor(
+    discount: number,
+    baseline: "none" | "mean" | ValueModel,
+    discountWeighting: boolean,
+  ) {
     this.discount = discount;
     this.baseline = baseline;
     this.discountWeighting = discountWeighting;
@@ -150,6 +158,7 @@ export function reinforce(options: ReinforceOptions = {}): ReinforceEstimator {
     throw new RecedeError("type", fn, "baseline", '"none", "mean" or a ValueModel', baseline);
   }
   const dw = options.discountWeighting ?? true;
-  if (typeof dw !== "boolean") throw new RecedeError("type", fn, "discountWeighting", "a boolean", dw);
+  if (typeof dw !== "boolean")
+    throw new RecedeError("type", fn, "discountWeighting", "a boolean", dw);
   return new ReinforceEstimator(discount, baseline, dw);
 }

@@ -30,7 +30,14 @@ if (ref === undefined) throw new Error("fixture case missing");
 const exact = ref.gradient.flat();
 
 /** Per-episode gradient terms Σ_t w_t ∇ ln π(a_t|s_t) (first `dims` parameters), their mean and SE. */
-function perEpisode(policy: StochasticPolicy, theta: Float64Array, s: ScoredSamples, E: number, T: number, dims: number) {
+function perEpisode(
+  policy: StochasticPolicy,
+  theta: Float64Array,
+  s: ScoredSamples,
+  E: number,
+  T: number,
+  dims: number,
+) {
   const n = policy.stateSize;
   const a = policy.actionSize;
   const sum = new Float64Array(dims);
@@ -60,7 +67,13 @@ describe("sampled policy gradient vs the exact LQR gradient (scipy fixture)", ()
     initialState: new Float64Array(2),
     initialStateStd: 1, // Σ₀ = I
   });
-  const policy = linearGaussianPolicy({ stateSize: 2, actionSize: 1, bias: false, initialGain: ref.K, initialStd: 0.5 });
+  const policy = linearGaussianPolicy({
+    stateSize: 2,
+    actionSize: 1,
+    bias: false,
+    initialGain: ref.K,
+    initialStd: 0.5,
+  });
   const theta = policy.initialParameters();
   const E = 3000;
 

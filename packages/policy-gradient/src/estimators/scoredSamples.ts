@@ -54,7 +54,15 @@ export function surrogateLoss(
     const rho = Math.exp(lp - samples.logProbs[i]);
     s += w * rho;
     if (grad !== null) {
-      policy.addGradLogProb(theta, samples.states, i * n, samples.actions, i * a, w * rho * inv, grad);
+      policy.addGradLogProb(
+        theta,
+        samples.states,
+        i * n,
+        samples.actions,
+        i * a,
+        w * rho * inv,
+        grad,
+      );
     }
   }
   return s * inv;

@@ -168,7 +168,8 @@ export class LinearValueFunction implements ValueModel {
  */
 export function linearValueFunction(options: LinearValueFunctionOptions): LinearValueFunction {
   const fn = "linearValueFunction";
-  if (typeof options !== "object" || options === null) throw new RecedeError("type", fn, "options", "an object", options);
+  if (typeof options !== "object" || options === null)
+    throw new RecedeError("type", fn, "options", "an object", options);
   const n = requireInteger(fn, "stateSize", options.stateSize, 1);
   const horizon = requireInteger(fn, "horizon", options.horizon ?? 1, 1);
   const features = options.features ?? "quadratic";

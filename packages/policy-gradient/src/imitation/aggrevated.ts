@@ -3,14 +3,24 @@
  *
  * @module
  */
-import { createStream, type Geometry, RecedeError, requireInteger, type StepSizeInput } from "@recede/core";
-import type { EpisodeBatch } from "../environment/episodeBatch.js";
+import {
+  createStream,
+  type Geometry,
+  RecedeError,
+  requireInteger,
+  type StepSizeInput,
+} from "@recede/core";
 import type { RolloutEnvironment } from "../environment/environment.js";
+import type { EpisodeBatch } from "../environment/episodeBatch.js";
 import type { ScoredSamples } from "../estimators/scoredSamples.js";
 import { requireFiniteArray, requireUnitHalfOpen } from "../internal/validate.js";
 import type { StochasticPolicy } from "../policies/policy.js";
 import type { FisherGeometryOptions } from "../updates/fisherGeometry.js";
-import { type PolicyOptimizer, policyOptimizer, type TrustRegionOptions } from "../updates/policyOptimizer.js";
+import {
+  type PolicyOptimizer,
+  policyOptimizer,
+  type TrustRegionOptions,
+} from "../updates/policyOptimizer.js";
 import type { Expert } from "./dagger.js";
 
 /** Options of {@link aggrevated}. */
@@ -165,7 +175,8 @@ function rolloutCostToGo(
  */
 export function aggrevated(options: AggrevatedOptions): AggrevatedResult {
   const fn = "aggrevated";
-  if (typeof options !== "object" || options === null) throw new RecedeError("type", fn, "options", "an object", options);
+  if (typeof options !== "object" || options === null)
+    throw new RecedeError("type", fn, "options", "an object", options);
   const env = options.environment;
   if (typeof env !== "object" || env === null || typeof env.collect !== "function") {
     throw new RecedeError("type", fn, "environment", "a RolloutEnvironment", env);
@@ -177,19 +188,37 @@ export function aggrevated(options: AggrevatedOptions): AggrevatedResult {
   const policy = options.policy;
   env.checkPolicy(fn, policy);
   if (env.discreteControls !== null) {
-    throw new RecedeError("type", fn, "environment", "an environment with continuous controls", "a discrete-control environment");
+    throw new RecedeError(
+      "type",
+      fn,
+      "environment",
+      "an environment with continuous controls",
+      "a discrete-control environment",
+    );
   }
   const rounds = requireInteger(fn, "rounds", options.rounds, 1);
   const E = requireInteger(fn, "episodesPerRound", options.episodesPerRound, 1);
   const mode = options.costToGo ?? (typeof expert.costToGo === "function" ? "expert" : "rollout");
-  if (mode !== "expert" && mode !== "rollout") throw new RecedeError("range", fn, "costToGo", '"expert" or "rollout"', mode);
+  if (mode !== "expert" && mode !== "rollout")
+    throw new RecedeError("range", fn, "costToGo", '"expert" or "rollout"', mode);
   if (mode === "expert" && typeof expert.costToGo !== "function") {
-    throw new RecedeError("type", fn, "expert.costToGo", 'a function when costToGo is "expert"', expert.costToGo);
+    throw new RecedeError(
+      "type",
+      fn,
+      "expert.costToGo",
+      'a function when costToGo is "expert"',
+      expert.costToGo,
+    );
   }
   const T = env.horizon;
   const cap = requireInteger(fn, "rolloutSteps", options.rolloutSteps ?? T, 0);
   const gamma = requireUnitHalfOpen(fn, "discount", options.discount ?? 1);
-  const initial = requireFiniteArray(fn, "initial", options.initial ?? policy.initialParameters(), policy.parameterCount);
+  const initial = requireFiniteArray(
+    fn,
+    "initial",
+    options.initial ?? policy.initialParameters(),
+    policy.parameterCount,
+  );
   const opt = policyOptimizer({
     policy,
     initial,
@@ -245,7 +274,17 @@ export function aggrevated(options: AggrevatedOptions): AggrevatedResult {
       normalizer: N,
     };
     opt.update({ samples });
-    records.push({ round: r, rollInCost: batch.meanCost(), loss: loss / N, kl: opt.lastReport?.kl ?? 0 });
+    records.push({
+      round: r,
+      rollInCost: batch.meanCost(),
+      loss: loss / N,
+      kl: opt.lastReport?.kl ?? 0,
+    });
   }
-  return { parameters: opt.decision().slice(), optimizer: opt, rounds: records, costToGoEvaluations: evals };
+  return {
+    parameters: opt.decision().slice(),
+    optimizer: opt,
+    rounds: records,
+    costToGoEvaluations: evals,
+  };
 }

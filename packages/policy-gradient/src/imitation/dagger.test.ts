@@ -2,8 +2,8 @@ import { createStream, RecedeError } from "@recede/core";
 import {
   behaviourCloning,
   dagger,
-  environmentFromProblem,
   type Expert,
+  environmentFromProblem,
   fitPolicy,
   ImitationDataset,
   imitationLearner,
@@ -58,9 +58,30 @@ describe("DAgger vs behaviour cloning on a task where cloning drifts (compoundin
 
   for (const seed of [1, 3]) {
     it(`seed ${seed}: DAgger's closed-loop cost is below 75% of BC's with the same 1280 labels`, () => {
-      const policy = mlpGaussianPolicy({ stateSize: 2, actionSize: 1, hidden: [16], seed, outputScale: 0.1 });
-      const bc = behaviourCloning({ environment: env, expert: swingUpExpert, policy, episodes: 8, seed, fit });
-      const dg = dagger({ environment: env, expert: swingUpExpert, policy, rounds: 8, episodesPerRound: 1, seed, fit });
+      const policy = mlpGaussianPolicy({
+        stateSize: 2,
+        actionSize: 1,
+        hidden: [16],
+        seed,
+        outputScale: 0.1,
+      });
+      const bc = behaviourCloning({
+        environment: env,
+        expert: swingUpExpert,
+        policy,
+        episodes: 8,
+        seed,
+        fit,
+      });
+      const dg = dagger({
+        environment: env,
+        expert: swingUpExpert,
+        policy,
+        rounds: 8,
+        episodesPerRound: 1,
+        seed,
+        fit,
+      });
       expect(bc.labels).toBe(1280);
       expect(dg.labels).toBe(1280);
       expect(dg.rounds[0].beta).toBe(1);
@@ -78,11 +99,22 @@ describe("DAgger vs behaviour cloning on a task where cloning drifts (compoundin
 describe("imitation building blocks", () => {
   it("linear least-squares refit recovers a linear expert exactly (realizable case)", () => {
     const p = doubleIntegrator({ dt: 0.1 });
-    const env = environmentFromProblem(p, { horizon: 50, initialStateStd: 0.5, disturbanceStd: 0.01 });
+    const env = environmentFromProblem(p, {
+      horizon: 50,
+      initialStateStd: 0.5,
+      disturbanceStd: 0.01,
+    });
     const K = [2.5857008966598656, 3.443435917845341]; // DARE gain of the fixture's double integrator
     const expert: Expert = { act: (s) => [-(K[0] * s[0] + K[1] * s[1])] };
     const policy = linearGaussianPolicy({ stateSize: 2, actionSize: 1 });
-    const bc = behaviourCloning({ environment: env, expert, policy, episodes: 3, seed: 2 });
+    const bc = behaviourCloning({
+      environment: env,
+      expert,
+      policy,
+      episodes: 3,
+      seed: 2,
+      fit: { ridge: 0 },
+    });
     expect(bc.parameters[0]).toBeCloseTo(K[0], 6);
     expect(bc.parameters[1]).toBeCloseTo(K[1], 6);
     expect(bc.parameters[2]).toBeCloseTo(0, 6); // bias
@@ -94,7 +126,16 @@ describe("imitation building blocks", () => {
     const env = environmentFromProblem(p, { horizon: 30, initialStateStd: 0.5 });
     const expert: Expert = { act: (s) => [Math.max(-1, Math.min(1, -(2 * s[0] + 3 * s[1])))] };
     const policy = linearGaussianPolicy({ stateSize: 2, actionSize: 1 });
-    const res = dagger({ environment: env, expert, policy, rounds: 4, episodesPerRound: 2, mixing: { decay: 0.5 }, validationEpisodes: 5, seed: 4 });
+    const res = dagger({
+      environment: env,
+      expert,
+      policy,
+      rounds: 4,
+      episodesPerRound: 2,
+      mixing: { decay: 0.5 },
+      validationEpisodes: 5,
+      seed: 4,
+    });
     expect(res.rounds.map((r) => r.beta)).toEqual([1, 0.5, 0.25, 0.125]);
     const costs = res.rounds.map((r) => r.validationCost);
     expect(costs[res.chosenRound]).toBe(Math.min(...costs));
@@ -107,25 +148,49 @@ describe("imitation building blocks", () => {
     const env = environmentFromProblem(p, { horizon: 40, initialStateStd: 0.5, controls });
     const expert: Expert = { act: (s) => [Math.max(-1, Math.min(1, -(2 * s[0] + 3 * s[1])))] };
     const policy = softmaxPolicy({ stateSize: 2, actionCount: 3 });
-    const res = dagger({ environment: env, expert, policy, rounds: 3, episodesPerRound: 2, seed: 5, fit: { iterations: 200, learningRate: 0.1 } });
+    const res = dagger({
+      environment: env,
+      expert,
+      policy,
+      rounds: 3,
+      episodesPerRound: 2,
+      seed: 5,
+      fit: { iterations: 200, learningRate: 0.1 },
+    });
     const labels = res.learner.dataset.labels.subarray(0, res.learner.dataset.size);
     expect(labels.every((a) => a === 0 || a === 1 || a === 2)).toBe(true);
-    const learned = env.evaluate(policyActor(policy, res.parameters, { controls }), 10, createStream(6)).mean;
+    const learned = env.evaluate(
+      policyActor(policy, res.parameters, { controls }),
+      10,
+      createStream(6),
+    ).mean;
     const idle = env.evaluate({ act: () => [0] }, 10, createStream(6)).mean;
     expect(learned).toBeLessThan(0.5 * idle);
   });
 
   it("the follow-the-leader learner reports ℓ_i(θ_i) before refitting, and a failed round changes nothing", () => {
     const policy = linearGaussianPolicy({ stateSize: 1, actionSize: 1 });
-    const learner = imitationLearner({ policy });
+    const learner = imitationLearner({ policy, fit: { ridge: 0 } });
     const seen: number[] = [];
     learner.observe((r) => seen.push(r.loss));
-    learner.update({ states: new Float64Array([1, 2]), labels: new Float64Array([-2, -4]), count: 2 });
+    learner.update({
+      states: new Float64Array([1, 2]),
+      labels: new Float64Array([-2, -4]),
+      count: 2,
+    });
     // θ₁ = 0 ⇒ ℓ₁ = mean((0 − a)²) = (4 + 16)/2 = 10; the refit gives K = 2, b = 0.
     expect(seen).toEqual([10]);
     expect(learner.decision()[0]).toBeCloseTo(2, 8);
     const snap = learner.snapshot();
-    catchRecedeError(() => learner.update({ states: new Float64Array([1]), labels: new Float64Array([Number.NaN]), count: 1 }), { code: "non-finite" });
+    catchRecedeError(
+      () =>
+        learner.update({
+          states: new Float64Array([1]),
+          labels: new Float64Array([Number.NaN]),
+          count: 1,
+        }),
+      { code: "non-finite" },
+    );
     expect(learner.snapshot()).toEqual(snap);
     expect(learner.dataset.size).toBe(2);
     learner.update({ states: new Float64Array([3]), labels: new Float64Array([-6]), count: 1 });
@@ -147,8 +212,21 @@ describe("imitation building blocks", () => {
     expect(r.method).toBe("adam");
     expect(r.loss).toBeLessThan(2e-3); // mean of sin² over the grid ≈ 0.5 before fitting
     const wrong = new ImitationDataset(2, 1);
-    const e = catchRecedeError(() => fitPolicy(policy, theta, wrong), { fn: "fitPolicy", arg: "data" });
+    const e = catchRecedeError(() => fitPolicy(policy, theta, wrong), {
+      fn: "fitPolicy",
+      arg: "data",
+    });
     expect(e).toBeInstanceOf(RecedeError);
-    catchRecedeError(() => dagger({ environment: {} as never, expert: swingUpExpert, policy, rounds: 1, episodesPerRound: 1 }), { fn: "dagger", arg: "environment" });
+    catchRecedeError(
+      () =>
+        dagger({
+          environment: {} as never,
+          expert: swingUpExpert,
+          policy,
+          rounds: 1,
+          episodesPerRound: 1,
+        }),
+      { fn: "dagger", arg: "environment" },
+    );
   });
 });

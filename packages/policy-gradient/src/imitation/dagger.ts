@@ -4,11 +4,11 @@
  * @module
  */
 import { createStream, RecedeError, requireInteger, type Stream } from "@recede/core";
-import type { EpisodeBatch } from "../environment/episodeBatch.js";
 import type { RolloutEnvironment } from "../environment/environment.js";
+import type { EpisodeBatch } from "../environment/episodeBatch.js";
 import { requireFiniteArray, requireUnitClosed } from "../internal/validate.js";
-import type { Actor, StochasticPolicy } from "../policies/policy.js";
 import { policyActor } from "../policies/actor.js";
+import type { Actor, StochasticPolicy } from "../policies/policy.js";
 import type { FitPolicyOptions } from "./fitPolicy.js";
 import { type ImitationLearner, imitationLearner } from "./imitationLearner.js";
 
@@ -30,7 +30,10 @@ export interface Expert extends Actor {
 }
 
 /** Mixing schedule β_i of DAgger (probability of the expert's action in round i ≥ 1). */
-export type MixingSchedule = "first-round" | { readonly decay: number } | ((round: number) => number);
+export type MixingSchedule =
+  | "first-round"
+  | { readonly decay: number }
+  | ((round: number) => number);
 
 /** Options shared by {@link behaviourCloning} and {@link dagger}. */
 export interface ImitationOptions {
@@ -119,7 +122,8 @@ interface Checked {
 }
 
 function checkCommon(fn: string, o: ImitationOptions): Checked {
-  if (typeof o !== "object" || o === null) throw new RecedeError("type", fn, "options", "an object", o);
+  if (typeof o !== "object" || o === null)
+    throw new RecedeError("type", fn, "options", "an object", o);
   const env = o.environment;
   if (typeof env !== "object" || env === null || typeof env.collectWith !== "function") {
     throw new RecedeError("type", fn, "environment", "a RolloutEnvironment", env);
@@ -130,7 +134,12 @@ function checkCommon(fn: string, o: ImitationOptions): Checked {
   }
   env.checkPolicy(fn, o.policy);
   const seed = o.seed ?? 0;
-  const initial = requireFiniteArray(fn, "initial", o.initial ?? o.policy.initialParameters(), o.policy.parameterCount);
+  const initial = requireFiniteArray(
+    fn,
+    "initial",
+    o.initial ?? o.policy.initialParameters(),
+    o.policy.parameterCount,
+  );
   const learner = imitationLearner({ policy: o.policy, initial, fit: o.fit ?? {} });
   return { env, expert, policy: o.policy, stream: createStream(seed), learner };
 }
@@ -139,7 +148,12 @@ function checkCommon(fn: string, o: ImitationOptions): Checked {
  * Write the label of an expert control for the learner: the control itself (Gaussian learner), or
  * the index of the nearest row of the environment's control table (categorical learner).
  */
-function labelOf(env: RolloutEnvironment, control: ArrayLike<number>, out: Float64Array, oo: number): void {
+function labelOf(
+  env: RolloutEnvironment,
+  control: ArrayLike<number>,
+  out: Float64Array,
+  oo: number,
+): void {
   const m = env.controlSize;
   const table = env.discreteControls;
   if (table === null) {
@@ -239,7 +253,13 @@ export function behaviourCloning(options: BehaviourCloningOptions): ImitationRes
     fitLoss: c.learner.lastFit?.loss ?? Number.NaN,
     validationCost: Number.NaN,
   };
-  return { parameters: c.learner.decision().slice(), learner: c.learner, labels: data.count, rounds: [round], chosenRound: 0 };
+  return {
+    parameters: c.learner.decision().slice(),
+    learner: c.learner,
+    labels: data.count,
+    rounds: [round],
+    chosenRound: 0,
+  };
 }
 
 /**
@@ -283,9 +303,16 @@ export function dagger(options: DaggerOptions): ImitationResult {
     let val = Number.NaN;
     if (valEpisodes > 0) {
       const actor = policyActor(c.policy, c.learner.decision(), {
-        controls: c.env.discreteControls === null ? undefined : { data: c.env.discreteControls, rows: c.env.actionCount, cols: c.env.controlSize },
+        controls:
+          c.env.discreteControls === null
+            ? undefined
+            : { data: c.env.discreteControls, rows: c.env.actionCount, cols: c.env.controlSize },
       });
-      val = c.env.evaluate(actor, valEpisodes, createStream(`${options.seed ?? 0}/validation`)).mean;
+      val = c.env.evaluate(
+        actor,
+        valEpisodes,
+        createStream(`${options.seed ?? 0}/validation`),
+      ).mean;
       if (val < bestCost || best < 0) {
         bestCost = val;
         best = i - 1;

@@ -50,7 +50,13 @@ export class ImitationDataset {
     const na = this.labelSize;
     for (let i = 0; i < na; i++) {
       if (!Number.isFinite(label[lo + i])) {
-        throw new RecedeError("non-finite", "ImitationDataset.add", `label[${i}]`, "finite", label[lo + i]);
+        throw new RecedeError(
+          "non-finite",
+          "ImitationDataset.add",
+          `label[${i}]`,
+          "finite",
+          label[lo + i],
+        );
       }
     }
     if ((this.n + 1) * ns > this.s.length) {

@@ -45,7 +45,11 @@ export interface FitPolicyReport {
  * for Gaussian families (the convex per-round loss of DAgger for continuous controls, MATH.md
  * §6), the mean negative log-likelihood −(1/N) Σ ln π_θ(a*_i | s_i) for categorical ones.
  */
-export function imitationLoss(policy: StochasticPolicy, theta: Float64Array, data: ImitationDataset): number {
+export function imitationLoss(
+  policy: StochasticPolicy,
+  theta: Float64Array,
+  data: ImitationDataset,
+): number {
   const N = data.size;
   if (N === 0) return 0;
   const n = policy.stateSize;
@@ -66,7 +70,12 @@ export function imitationLoss(policy: StochasticPolicy, theta: Float64Array, dat
   return s / N;
 }
 
-function fitLinear(policy: LinearGaussianPolicy, theta: Float64Array, data: ImitationDataset, ridge: number): boolean {
+function fitLinear(
+  policy: LinearGaussianPolicy,
+  theta: Float64Array,
+  data: ImitationDataset,
+  ridge: number,
+): boolean {
   const n = policy.stateSize;
   const m = policy.actionSize;
   const p = n + (policy.hasBias ? 1 : 0);
@@ -165,7 +174,8 @@ export function fitPolicy(
 ): FitPolicyReport {
   const fn = "fitPolicy";
   requireFiniteArray(fn, "theta", theta, policy.parameterCount);
-  if (!(data instanceof ImitationDataset)) throw new RecedeError("type", fn, "data", "an ImitationDataset", data);
+  if (!(data instanceof ImitationDataset))
+    throw new RecedeError("type", fn, "data", "an ImitationDataset", data);
   if (data.stateSize !== policy.stateSize || data.labelSize !== policy.actionSize) {
     throw new RecedeError(
       "dimension",
@@ -185,7 +195,13 @@ export function fitPolicy(
   if (policy instanceof LinearGaussianPolicy) {
     method = "least-squares";
     if (!fitLinear(policy, work, data, ridge)) {
-      throw new RecedeError("not-spd", fn, "ridge", "large enough for the normal equations to be positive definite", ridge);
+      throw new RecedeError(
+        "not-spd",
+        fn,
+        "ridge",
+        "large enough for the normal equations to be positive definite",
+        ridge,
+      );
     }
   } else {
     method = "adam";
@@ -194,7 +210,13 @@ export function fitPolicy(
   }
   for (let i = 0; i < work.length; i++) {
     if (!Number.isFinite(work[i])) {
-      throw new RecedeError("non-finite", fn, "data", "a data set that gives a finite fit", `θ[${i}] = ${work[i]}`);
+      throw new RecedeError(
+        "non-finite",
+        fn,
+        "data",
+        "a data set that gives a finite fit",
+        `θ[${i}] = ${work[i]}`,
+      );
     }
   }
   theta.set(work);

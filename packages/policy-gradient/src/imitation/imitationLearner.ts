@@ -5,11 +5,22 @@
  *
  * @module
  */
-import { ObserverList, type OnlineLearner, RecedeError, type RoundRecord, requireInteger } from "@recede/core";
+import {
+  ObserverList,
+  type OnlineLearner,
+  RecedeError,
+  type RoundRecord,
+  requireInteger,
+} from "@recede/core";
 import { requireFiniteArray } from "../internal/validate.js";
 import type { StochasticPolicy } from "../policies/policy.js";
 import { ImitationDataset } from "./dataset.js";
-import { type FitPolicyOptions, type FitPolicyReport, fitPolicy, imitationLoss } from "./fitPolicy.js";
+import {
+  type FitPolicyOptions,
+  type FitPolicyReport,
+  fitPolicy,
+  imitationLoss,
+} from "./fitPolicy.js";
 
 /** One round's data: `count` states with their expert labels. */
 export interface ImitationFeedback {
@@ -53,7 +64,9 @@ interface MutableRecord {
 }
 
 /** The follow-the-leader imitation learner; create with {@link imitationLearner}. */
-export class ImitationLearner implements OnlineLearner<ImitationFeedback, ImitationLearnerSnapshot> {
+export class ImitationLearner
+  implements OnlineLearner<ImitationFeedback, ImitationLearnerSnapshot>
+{
   readonly dimension: number;
   /** The policy family. */
   readonly policy: StochasticPolicy;
@@ -80,7 +93,13 @@ export class ImitationLearner implements OnlineLearner<ImitationFeedback, Imitat
     this.fitOptions = fit;
     this.dataset = new ImitationDataset(policy.stateSize, policy.actionSize);
     this.scratch = new ImitationDataset(policy.stateSize, policy.actionSize);
-    this.record = { round: 0, decision: this.played, loss: Number.NaN, gradient: undefined, lossObject: undefined };
+    this.record = {
+      round: 0,
+      decision: this.played,
+      loss: Number.NaN,
+      gradient: undefined,
+      lossObject: undefined,
+    };
   }
 
   get round(): number {
@@ -115,7 +134,13 @@ export class ImitationLearner implements OnlineLearner<ImitationFeedback, Imitat
   update(feedback: ImitationFeedback): void {
     const fn = "ImitationLearner.update";
     if (typeof feedback !== "object" || feedback === null) {
-      throw new RecedeError("type", fn, "feedback", "an object { states, labels, count }", feedback);
+      throw new RecedeError(
+        "type",
+        fn,
+        "feedback",
+        "an object { states, labels, count }",
+        feedback,
+      );
     }
     const n = this.policy.stateSize;
     const w = this.policy.actionSize;
@@ -123,21 +148,35 @@ export class ImitationLearner implements OnlineLearner<ImitationFeedback, Imitat
     requireFiniteArray(fn, "feedback.states", feedback.states, feedback.states?.length ?? 0);
     requireFiniteArray(fn, "feedback.labels", feedback.labels, feedback.labels?.length ?? 0);
     if (feedback.states.length < count * n || feedback.labels.length < count * w) {
-      throw new RecedeError("dimension", fn, "feedback", `${count} states of size ${n} and labels of size ${w}`, feedback.states);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "feedback",
+        `${count} states of size ${n} and labels of size ${w}`,
+        feedback.states,
+      );
     }
     if (this.policy.kind === "categorical") {
       for (let i = 0; i < count; i++) {
         const a = feedback.labels[i];
         if (!Number.isInteger(a) || a < 0 || a >= this.policy.actionCount) {
-          throw new RecedeError("range", fn, `feedback.labels[${i}]`, `an action index in [0, ${this.policy.actionCount - 1}]`, a);
+          throw new RecedeError(
+            "range",
+            fn,
+            `feedback.labels[${i}]`,
+            `an action index in [0, ${this.policy.actionCount - 1}]`,
+            a,
+          );
         }
       }
     }
     this.scratch.clear();
-    for (let i = 0; i < count; i++) this.scratch.add(feedback.states, i * n, feedback.labels, i * w);
+    for (let i = 0; i < count; i++)
+      this.scratch.add(feedback.states, i * n, feedback.labels, i * w);
     const loss = imitationLoss(this.policy, this.theta, this.scratch);
     const before = this.dataset.size;
-    for (let i = 0; i < count; i++) this.dataset.add(feedback.states, i * n, feedback.labels, i * w);
+    for (let i = 0; i < count; i++)
+      this.dataset.add(feedback.states, i * n, feedback.labels, i * w);
     this.played.set(this.theta);
     let report: FitPolicyReport;
     try {
@@ -187,10 +226,21 @@ export class ImitationLearner implements OnlineLearner<ImitationFeedback, Imitat
 
   restore(snapshot: ImitationLearnerSnapshot): void {
     const fn = "ImitationLearner.restore";
-    if (typeof snapshot !== "object" || snapshot === null) throw new RecedeError("type", fn, "snapshot", "an ImitationLearnerSnapshot", snapshot);
+    if (typeof snapshot !== "object" || snapshot === null)
+      throw new RecedeError("type", fn, "snapshot", "an ImitationLearnerSnapshot", snapshot);
     requireFiniteArray(fn, "snapshot.decision", snapshot.decision, this.dimension);
-    if (!Number.isInteger(snapshot.dataSize) || snapshot.dataSize < 0 || snapshot.dataSize > this.dataset.size) {
-      throw new RecedeError("state", fn, "snapshot.dataSize", `an integer in [0, ${this.dataset.size}] (the data set only grows)`, snapshot.dataSize);
+    if (
+      !Number.isInteger(snapshot.dataSize) ||
+      snapshot.dataSize < 0 ||
+      snapshot.dataSize > this.dataset.size
+    ) {
+      throw new RecedeError(
+        "state",
+        fn,
+        "snapshot.dataSize",
+        `an integer in [0, ${this.dataset.size}] (the data set only grows)`,
+        snapshot.dataSize,
+      );
     }
     this.truncate(snapshot.dataSize);
     this.theta.set(snapshot.decision);
@@ -219,11 +269,17 @@ export class ImitationLearner implements OnlineLearner<ImitationFeedback, Imitat
  */
 export function imitationLearner(options: ImitationLearnerOptions): ImitationLearner {
   const fn = "imitationLearner";
-  if (typeof options !== "object" || options === null) throw new RecedeError("type", fn, "options", "an object", options);
+  if (typeof options !== "object" || options === null)
+    throw new RecedeError("type", fn, "options", "an object", options);
   const policy = options.policy;
   if (typeof policy !== "object" || policy === null || typeof policy.mean !== "function") {
     throw new RecedeError("type", fn, "policy", "a StochasticPolicy", policy);
   }
-  const initial = requireFiniteArray(fn, "initial", options.initial ?? policy.initialParameters(), policy.parameterCount);
+  const initial = requireFiniteArray(
+    fn,
+    "initial",
+    options.initial ?? policy.initialParameters(),
+    policy.parameterCount,
+  );
   return new ImitationLearner(policy, initial, options.fit ?? {});
 }

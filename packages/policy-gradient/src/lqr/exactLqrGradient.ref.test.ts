@@ -63,7 +63,9 @@ describe("exact LQR policy gradient (Fazel et al. 2018) against scipy", () => {
       const ev = problemOf(c).evaluate(flat(c.K));
       expect(Math.abs(ev.cost - c.cost)).toBeLessThan(1e-10 * Math.abs(c.cost));
       expect(maxAbs(ev.valueMatrix, flat(c.P))).toBeLessThan(1e-10 * scaleOf(flat(c.P)));
-      expect(maxAbs(ev.stateCovariance, flat(c.SigmaK))).toBeLessThan(1e-10 * scaleOf(flat(c.SigmaK)));
+      expect(maxAbs(ev.stateCovariance, flat(c.SigmaK))).toBeLessThan(
+        1e-10 * scaleOf(flat(c.SigmaK)),
+      );
       expect(maxAbs(ev.gradient, flat(c.gradient))).toBeLessThan(1e-9 * scaleOf(flat(c.gradient)));
     });
 
@@ -150,8 +152,12 @@ describe("typed errors", () => {
     expect(Array.from(k)).toEqual(Array.from(before));
   });
   it("noise without discount, wrong shapes, non-SPD R", () => {
-    expect(() => lqrPolicyProblem({ a: c.A, b: c.B, q: c.Q, r: c.R, actionNoise: [[1]] })).toThrow(/discount/);
+    expect(() => lqrPolicyProblem({ a: c.A, b: c.B, q: c.Q, r: c.R, actionNoise: [[1]] })).toThrow(
+      /discount/,
+    );
     expect(() => lqrPolicyProblem({ a: c.A, b: [[1, 2, 3]], q: c.Q, r: c.R })).toThrow(RecedeError);
-    expect(() => lqrPolicyProblem({ a: c.A, b: c.B, q: c.Q, r: [[-1]] })).toThrow(/positive definite/);
+    expect(() => lqrPolicyProblem({ a: c.A, b: c.B, q: c.Q, r: [[-1]] })).toThrow(
+      /positive definite/,
+    );
   });
 });

@@ -6,8 +6,8 @@
  */
 import {
   discreteLyapunov,
-  mahalanobis,
   type MatrixInput,
+  mahalanobis,
   RecedeError,
   requireInteger,
   requirePositive,
@@ -83,7 +83,11 @@ function transpose(r: number, c: number, a: Float64Array): Float64Array {
   return out;
 }
 
-function mat(data: Float64Array, rows: number, cols: number): { data: Float64Array; rows: number; cols: number } {
+function mat(
+  data: Float64Array,
+  rows: number,
+  cols: number,
+): { data: Float64Array; rows: number; cols: number } {
   return { data, rows, cols };
 }
 
@@ -183,7 +187,8 @@ export class LqrPolicyProblem {
     // Σ = Σ₀′ + A_cl Σ A_clᵀ  →  discreteLyapunov(A_clᵀ, Σ₀′).
     const S = discreteLyapunov(mat(transpose(n, n, acl), n, n), mat(this.S0, n, n)).data;
     let cost = this.noiseCost;
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) cost += P[i * n + j] * this.S0[j * n + i];
+    for (let i = 0; i < n; i++)
+      for (let j = 0; j < n; j++) cost += P[i * n + j] * this.S0[j * n + i];
     const bt = transpose(n, m, this.B);
     const btp = matmul(m, n, n, bt, P);
     const curv = matmul(m, n, m, btp, this.B);
@@ -220,7 +225,13 @@ export class LqrPolicyProblem {
   step(gain: Float64Array, method: LqrUpdateMethod, stepSize: number): Float64Array {
     const fn = "LqrPolicyProblem.step";
     if (method !== "gradient" && method !== "natural" && method !== "gauss-newton") {
-      throw new RecedeError("range", fn, "method", '"gradient", "natural" or "gauss-newton"', method);
+      throw new RecedeError(
+        "range",
+        fn,
+        "method",
+        '"gradient", "natural" or "gauss-newton"',
+        method,
+      );
     }
     requirePositive(fn, "stepSize", stepSize);
     const ev = this.evaluate(gain);
@@ -277,28 +288,45 @@ export class LqrPolicyProblem {
  */
 export function lqrPolicyProblem(options: LqrPolicyProblemOptions): LqrPolicyProblem {
   const fn = "lqrPolicyProblem";
-  if (typeof options !== "object" || options === null) throw new RecedeError("type", fn, "options", "an object", options);
+  if (typeof options !== "object" || options === null)
+    throw new RecedeError("type", fn, "options", "an object", options);
   const A = toRowMajor(fn, "a", options.a);
   const n = requireInteger(fn, "a.rows", A.rows, 1);
-  if (A.cols !== n) throw new RecedeError("dimension", fn, "a", "square", `shape ${A.rows}×${A.cols}`);
+  if (A.cols !== n)
+    throw new RecedeError("dimension", fn, "a", "square", `shape ${A.rows}×${A.cols}`);
   const B = toRowMajor(fn, "b", options.b, n, -1);
   const m = requireInteger(fn, "b.cols", B.cols, 1);
   const Q = toRowMajor(fn, "q", options.q, n, n);
   const R = toRowMajor(fn, "r", options.r, m, m);
   const eye = new Float64Array(n * n);
   for (let i = 0; i < n; i++) eye[i * n + i] = 1;
-  const S0 = options.initialCovariance === undefined ? mat(eye, n, n) : toRowMajor(fn, "initialCovariance", options.initialCovariance, n, n);
+  const S0 =
+    options.initialCovariance === undefined
+      ? mat(eye, n, n)
+      : toRowMajor(fn, "initialCovariance", options.initialCovariance, n, n);
   const gamma = requireUnitHalfOpen(fn, "discount", options.discount ?? 1);
-  const W = options.actionNoise === undefined ? mat(new Float64Array(m * m), m, m) : toRowMajor(fn, "actionNoise", options.actionNoise, m, m);
+  const W =
+    options.actionNoise === undefined
+      ? mat(new Float64Array(m * m), m, m)
+      : toRowMajor(fn, "actionNoise", options.actionNoise, m, m);
   if (gamma === 1 && W.data.some((v) => v !== 0)) {
-    throw new RecedeError("range", fn, "discount", "< 1 when actionNoise is non-zero (the cost is infinite otherwise)", gamma);
+    throw new RecedeError(
+      "range",
+      fn,
+      "discount",
+      "< 1 when actionNoise is non-zero (the cost is infinite otherwise)",
+      gamma,
+    );
   }
   // Symmetric positive definiteness of R and Σ₀ (Cholesky), symmetry of Q.
   requireSpd(fn, "r", R.data, m);
   requireSpd(fn, "initialCovariance", S0.data, n);
   for (let i = 0; i < n; i++) {
     for (let j = 0; j < i; j++) {
-      if (Math.abs(Q.data[i * n + j] - Q.data[j * n + i]) > 1e-12 * (1 + Math.abs(Q.data[i * n + j]))) {
+      if (
+        Math.abs(Q.data[i * n + j] - Q.data[j * n + i]) >
+        1e-12 * (1 + Math.abs(Q.data[i * n + j]))
+      ) {
         throw new RecedeError("not-spd", fn, "q", "symmetric", `q[${i}][${j}] ≠ q[${j}][${i}]`);
       }
     }
@@ -310,6 +338,12 @@ function requireSpd(fn: string, arg: string, a: Float64Array, n: number): void {
   try {
     mahalanobis({ metric: mat(a.slice(), n, n) });
   } catch {
-    throw new RecedeError("not-spd", fn, arg, "symmetric positive definite", `a ${n}×${n} matrix that is not`);
+    throw new RecedeError(
+      "not-spd",
+      fn,
+      arg,
+      "symmetric positive definite",
+      `a ${n}×${n} matrix that is not`,
+    );
   }
 }

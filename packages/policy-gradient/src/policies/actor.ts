@@ -48,7 +48,13 @@ export function policyActor(
   let m = policy.actionSize;
   if (options.controls !== undefined) {
     if (policy.kind !== "categorical") {
-      throw new RecedeError("type", fn, "controls", "given only for a categorical policy", options.controls);
+      throw new RecedeError(
+        "type",
+        fn,
+        "controls",
+        "given only for a categorical policy",
+        options.controls,
+      );
     }
     const t = toRowMajor(fn, "controls", options.controls, policy.actionCount, -1);
     table = t.data;
@@ -60,7 +66,13 @@ export function policyActor(
     parameters: params,
     act(state: Float64Array, out?: Float64Array): Float64Array {
       if (!(state instanceof Float64Array) || state.length !== n) {
-        throw new RecedeError("dimension", "PolicyActor.act", "state", `a Float64Array of length ${n}`, state);
+        throw new RecedeError(
+          "dimension",
+          "PolicyActor.act",
+          "state",
+          `a Float64Array of length ${n}`,
+          state,
+        );
       }
       const o = out ?? buf;
       if (table !== null) {

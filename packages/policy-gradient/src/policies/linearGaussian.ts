@@ -11,7 +11,12 @@ import {
   type Stream,
   toRowMajor,
 } from "@recede/core";
-import { gaussianKl, gaussianLogProb, gaussianPerturb, gaussianScore } from "../internal/gaussianHead.js";
+import {
+  gaussianKl,
+  gaussianLogProb,
+  gaussianPerturb,
+  gaussianScore,
+} from "../internal/gaussianHead.js";
 import type { ParameterBlock, StochasticPolicy } from "./policy.js";
 
 /** Options of {@link linearGaussianPolicy}. */
@@ -109,7 +114,13 @@ export class LinearGaussianPolicy implements StochasticPolicy {
     gaussianPerturb(this.actionSize, this.mu, theta, this.logStdOffset, action, ao);
   }
 
-  mean(theta: Float64Array, state: Float64Array, so: number, action: Float64Array, ao: number): void {
+  mean(
+    theta: Float64Array,
+    state: Float64Array,
+    so: number,
+    action: Float64Array,
+    ao: number,
+  ): void {
     this.meanInto(theta, state, so, this.mu);
     for (let j = 0; j < this.actionSize; j++) action[ao + j] = this.mu[j];
   }
@@ -137,7 +148,18 @@ export class LinearGaussianPolicy implements StochasticPolicy {
     const n = this.stateSize;
     const m = this.actionSize;
     this.meanInto(theta, state, so, this.mu);
-    const lp = gaussianScore(m, this.mu, 0, theta, this.logStdOffset, action, ao, weight, this.dmu, out);
+    const lp = gaussianScore(
+      m,
+      this.mu,
+      0,
+      theta,
+      this.logStdOffset,
+      action,
+      ao,
+      weight,
+      this.dmu,
+      out,
+    );
     const d = this.dmu;
     for (let j = 0; j < m; j++) {
       const r = j * n;
@@ -235,7 +257,13 @@ export function linearGaussianPolicy(options: LinearGaussianPolicyOptions): Line
     for (let j = 0; j < m; j++) init[ls + j] = Math.log(std);
   } else {
     if (!(std instanceof Float64Array) || std.length !== m) {
-      throw new RecedeError("dimension", fn, "initialStd", `a number or a Float64Array of length ${m}`, std);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "initialStd",
+        `a number or a Float64Array of length ${m}`,
+        std,
+      );
     }
     for (let j = 0; j < m; j++) {
       requirePositive(fn, `initialStd[${j}]`, std[j]);

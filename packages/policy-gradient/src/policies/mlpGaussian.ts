@@ -5,8 +5,19 @@
  *
  * @module
  */
-import { createStream, RecedeError, requireInteger, requirePositive, type Stream } from "@recede/core";
-import { gaussianKl, gaussianLogProb, gaussianPerturb, gaussianScore } from "../internal/gaussianHead.js";
+import {
+  createStream,
+  RecedeError,
+  requireInteger,
+  requirePositive,
+  type Stream,
+} from "@recede/core";
+import {
+  gaussianKl,
+  gaussianLogProb,
+  gaussianPerturb,
+  gaussianScore,
+} from "../internal/gaussianHead.js";
 import type { ParameterBlock, StochasticPolicy } from "./policy.js";
 
 /** Options of {@link mlpGaussianPolicy}. */
@@ -93,7 +104,12 @@ export class MlpGaussianPolicy implements StochasticPolicy {
       const fin = sizes[l];
       const fout = sizes[l + 1];
       this.wOff[l] = p;
-      blocks.push({ name: `layer${l + 1}.weight`, offset: p, length: fin * fout, shape: [fout, fin] });
+      blocks.push({
+        name: `layer${l + 1}.weight`,
+        offset: p,
+        length: fin * fout,
+        shape: [fout, fin],
+      });
       p += fin * fout;
       this.bOff[l] = p;
       blocks.push({ name: `layer${l + 1}.bias`, offset: p, length: fout, shape: [fout] });
@@ -226,7 +242,13 @@ export class MlpGaussianPolicy implements StochasticPolicy {
     gaussianPerturb(m, this.mu2, theta, this.logStdOffset, action, ao);
   }
 
-  mean(theta: Float64Array, state: Float64Array, so: number, action: Float64Array, ao: number): void {
+  mean(
+    theta: Float64Array,
+    state: Float64Array,
+    so: number,
+    action: Float64Array,
+    ao: number,
+  ): void {
     this.forward(theta, state, so);
     const mo = this.aOff[this.sizes.length - 1];
     for (let j = 0; j < this.actionSize; j++) action[ao + j] = this.act[mo + j];
@@ -277,7 +299,13 @@ export class MlpGaussianPolicy implements StochasticPolicy {
    * out ← out + J_θμ(x)ᵀ w: the reverse pass for an arbitrary output cotangent w (length m), used by
    * regression losses on the mean action (behaviour cloning, DAgger).
    */
-  addMeanVjp(theta: Float64Array, state: Float64Array, so: number, w: Float64Array, out: Float64Array): void {
+  addMeanVjp(
+    theta: Float64Array,
+    state: Float64Array,
+    so: number,
+    w: Float64Array,
+    out: Float64Array,
+  ): void {
     this.forward(theta, state, so);
     const mo = this.aOff[this.sizes.length - 1];
     for (let j = 0; j < this.actionSize; j++) this.del[mo + j] = w[j];
@@ -376,8 +404,9 @@ export function mlpGaussianPolicy(options: MlpGaussianPolicyOptions): MlpGaussia
   const n = requireInteger(fn, "stateSize", options.stateSize, 1);
   const m = requireInteger(fn, "actionSize", options.actionSize, 1);
   const hidden = options.hidden ?? [32, 32];
-  if (!Array.isArray(hidden)) throw new RecedeError("type", fn, "hidden", "an array of integers", hidden);
-  hidden.forEach((h, i) => requireInteger(fn, `hidden[${i}]`, h, 1));
+  if (!Array.isArray(hidden))
+    throw new RecedeError("type", fn, "hidden", "an array of integers", hidden);
+  for (let i = 0; i < hidden.length; i++) requireInteger(fn, `hidden[${i}]`, hidden[i], 1);
   const std = requirePositive(fn, "initialStd", options.initialStd ?? 1);
   const outScale = requirePositive(fn, "outputScale", options.outputScale ?? 0.01);
   const seed = options.seed ?? 0;

@@ -78,72 +78,101 @@ for (const { name, policy: p } of families) {
 
     it("addGradLogProb accumulates w·∇ ln π", () => {
       fc.assert(
-        fc.property(params(p), vec(p.stateSize, 2), action(p), fc.double({ min: -3, max: 3, noNaN: true }), (theta, s, a, w) => {
-          const g1 = new Float64Array(p.parameterCount);
-          p.addGradLogProb(theta, s, 0, a, 0, 1, g1);
-          const g2 = new Float64Array(p.parameterCount).fill(0.25);
-          p.addGradLogProb(theta, s, 0, a, 0, w, g2);
-          for (let i = 0; i < p.parameterCount; i++) expect(g2[i]).toBeCloseTo(0.25 + w * g1[i], 10);
-        }),
+        fc.property(
+          params(p),
+          vec(p.stateSize, 2),
+          action(p),
+          fc.double({ min: -3, max: 3, noNaN: true }),
+          (theta, s, a, w) => {
+            const g1 = new Float64Array(p.parameterCount);
+            p.addGradLogProb(theta, s, 0, a, 0, 1, g1);
+            const g2 = new Float64Array(p.parameterCount).fill(0.25);
+            p.addGradLogProb(theta, s, 0, a, 0, w, g2);
+            for (let i = 0; i < p.parameterCount; i++)
+              expect(g2[i]).toBeCloseTo(0.25 + w * g1[i], 10);
+          },
+        ),
         { numRuns: 100 },
       );
     });
 
     it("Fisher-vector products match second-order finite differences of the mean KL", () => {
       fc.assert(
-        fc.property(params(p), vec(3 * p.stateSize, 2), vec(p.parameterCount), vec(p.parameterCount), (theta, states, u, v) => {
-          const count = 3;
-          const fv = p.fisherVectorProduct(theta, states, 0, count, v, new Float64Array(p.parameterCount));
-          let uFv = 0;
-          for (let i = 0; i < p.parameterCount; i++) uFv += u[i] * fv[i];
-          const h = 1e-3;
-          const q = (w: Float64Array) => {
-            const tp = theta.slice();
-            const tm = theta.slice();
-            for (let i = 0; i < w.length; i++) {
-              tp[i] += h * w[i];
-              tm[i] -= h * w[i];
-            }
-            return (p.meanKl(theta, tp, states, 0, count) + p.meanKl(theta, tm, states, 0, count)) / (h * h);
-          };
-          const up = u.map((x, i) => x + v[i]);
-          const um = u.map((x, i) => x - v[i]);
-          const fd = 0.25 * (q(up) - q(um));
-          expect(Math.abs(fd - uFv)).toBeLessThan(1e-4 * (1 + Math.abs(uFv) + q(up) + q(um)));
-        }),
+        fc.property(
+          params(p),
+          vec(3 * p.stateSize, 2),
+          vec(p.parameterCount),
+          vec(p.parameterCount),
+          (theta, states, u, v) => {
+            const count = 3;
+            const fv = p.fisherVectorProduct(
+              theta,
+              states,
+              0,
+              count,
+              v,
+              new Float64Array(p.parameterCount),
+            );
+            let uFv = 0;
+            for (let i = 0; i < p.parameterCount; i++) uFv += u[i] * fv[i];
+            const h = 1e-3;
+            const q = (w: Float64Array) => {
+              const tp = theta.slice();
+              const tm = theta.slice();
+              for (let i = 0; i < w.length; i++) {
+                tp[i] += h * w[i];
+                tm[i] -= h * w[i];
+              }
+              return (
+                (p.meanKl(theta, tp, states, 0, count) + p.meanKl(theta, tm, states, 0, count)) /
+                (h * h)
+              );
+            };
+            const up = u.map((x, i) => x + v[i]);
+            const um = u.map((x, i) => x - v[i]);
+            const fd = 0.25 * (q(up) - q(um));
+            expect(Math.abs(fd - uFv)).toBeLessThan(1e-4 * (1 + Math.abs(uFv) + q(up) + q(um)));
+          },
+        ),
         { numRuns: 60 },
       );
     });
 
     it("Fisher-vector products match the Monte Carlo E[∇ln π ∇ln πᵀ] v (5 standard errors)", () => {
       fc.assert(
-        fc.property(params(p), vec(p.stateSize, 1.5), vec(p.parameterCount), fc.integer({ min: 0, max: 1e6 }), (theta, s, v, seed) => {
-          const d = p.parameterCount;
-          const fv = p.fisherVectorProduct(theta, s, 0, 1, v, new Float64Array(d));
-          const M = 20000;
-          const stream = createStream(seed);
-          const a = new Float64Array(p.actionSize);
-          const g = new Float64Array(d);
-          const sum = new Float64Array(d);
-          const sum2 = new Float64Array(d);
-          for (let k = 0; k < M; k++) {
-            p.sample(theta, s, 0, stream, a, 0);
-            g.fill(0);
-            p.addGradLogProb(theta, s, 0, a, 0, 1, g);
-            let gv = 0;
-            for (let i = 0; i < d; i++) gv += g[i] * v[i];
-            for (let i = 0; i < d; i++) {
-              const x = g[i] * gv;
-              sum[i] += x;
-              sum2[i] += x * x;
+        fc.property(
+          params(p),
+          vec(p.stateSize, 1.5),
+          vec(p.parameterCount),
+          fc.integer({ min: 0, max: 1e6 }),
+          (theta, s, v, seed) => {
+            const d = p.parameterCount;
+            const fv = p.fisherVectorProduct(theta, s, 0, 1, v, new Float64Array(d));
+            const M = 20000;
+            const stream = createStream(seed);
+            const a = new Float64Array(p.actionSize);
+            const g = new Float64Array(d);
+            const sum = new Float64Array(d);
+            const sum2 = new Float64Array(d);
+            for (let k = 0; k < M; k++) {
+              p.sample(theta, s, 0, stream, a, 0);
+              g.fill(0);
+              p.addGradLogProb(theta, s, 0, a, 0, 1, g);
+              let gv = 0;
+              for (let i = 0; i < d; i++) gv += g[i] * v[i];
+              for (let i = 0; i < d; i++) {
+                const x = g[i] * gv;
+                sum[i] += x;
+                sum2[i] += x * x;
+              }
             }
-          }
-          for (let i = 0; i < d; i++) {
-            const mean = sum[i] / M;
-            const se = Math.sqrt(Math.max(0, sum2[i] / M - mean * mean) / M);
-            expect(Math.abs(mean - fv[i])).toBeLessThanOrEqual(5 * se + 1e-9);
-          }
-        }),
+            for (let i = 0; i < d; i++) {
+              const mean = sum[i] / M;
+              const se = Math.sqrt(Math.max(0, sum2[i] / M - mean * mean) / M);
+              expect(Math.abs(mean - fv[i])).toBeLessThanOrEqual(5 * se + 1e-9);
+            }
+          },
+        ),
         { numRuns: 10 },
       );
     });
@@ -162,7 +191,12 @@ for (const { name, policy: p } of families) {
 
 describe("sampling", () => {
   it("same seed → bit-identical samples; Gaussian samples have the policy's mean and std", () => {
-    const p = linearGaussianPolicy({ stateSize: 2, actionSize: 1, initialGain: [[1, -2]], initialStd: 0.5 });
+    const p = linearGaussianPolicy({
+      stateSize: 2,
+      actionSize: 1,
+      initialGain: [[1, -2]],
+      initialStd: 0.5,
+    });
     const theta = p.initialParameters();
     theta[2] = 0.3; // bias
     const s = new Float64Array([0.4, 0.1]);

@@ -67,7 +67,13 @@ export interface StochasticPolicy {
     ao: number,
   ): void;
   /** The deterministic deployment action: the mean (Gaussian) or the most probable index (categorical). */
-  mean(theta: Float64Array, state: Float64Array, so: number, action: Float64Array, ao: number): void;
+  mean(
+    theta: Float64Array,
+    state: Float64Array,
+    so: number,
+    action: Float64Array,
+    ao: number,
+  ): void;
   /** ln π_θ(a | s). */
   logProb(
     theta: Float64Array,

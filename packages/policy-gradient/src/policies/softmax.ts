@@ -83,7 +83,12 @@ export class SoftmaxPolicy implements StochasticPolicy {
   }
 
   /** Write the action probabilities at `state` into `out` (length N). Returns `out`. */
-  probabilities(theta: Float64Array, state: Float64Array, so: number, out: Float64Array): Float64Array {
+  probabilities(
+    theta: Float64Array,
+    state: Float64Array,
+    so: number,
+    out: Float64Array,
+  ): Float64Array {
     this.logits(theta, state, so, this.z);
     for (let a = 0; a < this.actionCount; a++) out[a] = Math.exp(this.z[a]);
     return out;
@@ -112,7 +117,13 @@ export class SoftmaxPolicy implements StochasticPolicy {
     action[ao] = pick;
   }
 
-  mean(theta: Float64Array, state: Float64Array, so: number, action: Float64Array, ao: number): void {
+  mean(
+    theta: Float64Array,
+    state: Float64Array,
+    so: number,
+    action: Float64Array,
+    ao: number,
+  ): void {
     this.logits(theta, state, so, this.z);
     let best = 0;
     for (let a = 1; a < this.actionCount; a++) if (this.z[a] > this.z[best]) best = a;

@@ -76,7 +76,13 @@ export class FisherGeometry implements PreparableGeometry {
   private readonly applyFn: (v: Float64Array, out: Float64Array) => void;
 
   /** Use {@link fisherGeometry}; the constructor trusts validated options. */
-  constructor(policy: StochasticPolicy, damping: number, maxIterations: number, tolerance: number, maxStates: number) {
+  constructor(
+    policy: StochasticPolicy,
+    damping: number,
+    maxIterations: number,
+    tolerance: number,
+    maxStates: number,
+  ) {
     const d = policy.parameterCount;
     this.policy = policy;
     this.dimension = d;
@@ -100,11 +106,23 @@ export class FisherGeometry implements PreparableGeometry {
     const fn = "FisherGeometry.prepare";
     const n = this.policy.stateSize;
     if (!(theta instanceof Float64Array) || theta.length !== this.dimension) {
-      throw new RecedeError("dimension", fn, "theta", `a Float64Array of length ${this.dimension}`, theta);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "theta",
+        `a Float64Array of length ${this.dimension}`,
+        theta,
+      );
     }
     requireInteger(fn, "count", count, 1);
     if (!(states instanceof Float64Array) || states.length < so + count * n) {
-      throw new RecedeError("dimension", fn, "states", `a Float64Array holding ${count} states of size ${n}`, states);
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "states",
+        `a Float64Array holding ${count} states of size ${n}`,
+        states,
+      );
     }
     this.theta.set(theta);
     if (count <= this.maxStates) {
@@ -127,7 +145,13 @@ export class FisherGeometry implements PreparableGeometry {
 
   private requirePrepared(fn: string): void {
     if (!this.prepared) {
-      throw new RecedeError("state", fn, "geometry", "prepared with prepare(theta, states, so, count) first", "an unprepared geometry");
+      throw new RecedeError(
+        "state",
+        fn,
+        "geometry",
+        "prepared with prepare(theta, states, so, count) first",
+        "an unprepared geometry",
+      );
     }
   }
 
@@ -144,7 +168,15 @@ export class FisherGeometry implements PreparableGeometry {
   /** out ← (F + ζ I)⁻¹ g by conjugate gradient. `out` must not alias `g`. Returns `out`. */
   solve(g: Float64Array, out: Float64Array): Float64Array {
     this.requirePrepared("FisherGeometry.solve");
-    this.lastSolve = conjugateGradient(this.dimension, this.applyFn, g, out, this.scratch, this.maxIterations, this.tolerance);
+    this.lastSolve = conjugateGradient(
+      this.dimension,
+      this.applyFn,
+      g,
+      out,
+      this.scratch,
+      this.maxIterations,
+      this.tolerance,
+    );
     return out;
   }
 
@@ -210,9 +242,16 @@ export class FisherGeometry implements PreparableGeometry {
  * const opt = policyOptimizer({ policy: pi, geometry: geo, stepSize: 0.05 });
  * ```
  */
-export function fisherGeometry(policy: StochasticPolicy, options: FisherGeometryOptions = {}): FisherGeometry {
+export function fisherGeometry(
+  policy: StochasticPolicy,
+  options: FisherGeometryOptions = {},
+): FisherGeometry {
   const fn = "fisherGeometry";
-  if (typeof policy !== "object" || policy === null || typeof policy.fisherVectorProduct !== "function") {
+  if (
+    typeof policy !== "object" ||
+    policy === null ||
+    typeof policy.fisherVectorProduct !== "function"
+  ) {
     throw new RecedeError("type", fn, "policy", "a StochasticPolicy", policy);
   }
   const damping = requireNonNegative(fn, "damping", options.damping ?? 1e-3);

@@ -27,7 +27,11 @@ const kStar = dare.K.flat();
 
 function train(opt: PolicyOptimizer, rounds: number, onRound?: () => void): Float64Array {
   const problem = doubleIntegrator({ dt: 0.1, q: 1, r: 0.1, qf: 0 });
-  const env = environmentFromProblem(problem, { horizon: 100, initialState: new Float64Array(2), initialStateStd: 1 });
+  const env = environmentFromProblem(problem, {
+    horizon: 100,
+    initialState: new Float64Array(2),
+    initialStateStd: 1,
+  });
   const est = gae({ discount: 0.9, lambda: 0.95 });
   const batch = env.createBatch(200);
   const stream = createStream(7);
@@ -38,8 +42,15 @@ function train(opt: PolicyOptimizer, rounds: number, onRound?: () => void): Floa
   }
   return opt.decision().slice();
 }
-const relErr = (k: Float64Array) => Math.hypot(k[0] - kStar[0], k[1] - kStar[1]) / Math.hypot(kStar[0], kStar[1]);
-const policy = linearGaussianPolicy({ stateSize: 2, actionSize: 1, bias: false, initialGain: [[1, 1.5]], initialStd: 0.5 });
+const relErr = (k: Float64Array) =>
+  Math.hypot(k[0] - kStar[0], k[1] - kStar[1]) / Math.hypot(kStar[0], kStar[1]);
+const policy = linearGaussianPolicy({
+  stateSize: 2,
+  actionSize: 1,
+  bias: false,
+  initialGain: [[1, 1.5]],
+  initialStd: 0.5,
+});
 
 describe("policy gradient on the double integrator converges to the discounted DARE gain", () => {
   // Measured after 60 rounds (relative error ‖K − K*‖/‖K*‖): natural PG 0.2%, KL trust region 0.1%,

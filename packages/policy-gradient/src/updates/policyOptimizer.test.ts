@@ -17,26 +17,47 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 
 const problem = doubleIntegrator({ dt: 0.1, q: 1, r: 0.1 });
-const env = environmentFromProblem(problem, { horizon: 40, initialState: new Float64Array(2), initialStateStd: 1 });
+const env = environmentFromProblem(problem, {
+  horizon: 40,
+  initialState: new Float64Array(2),
+  initialStateStd: 1,
+});
 
-function batchFor(policy: ReturnType<typeof mlpGaussianPolicy> | ReturnType<typeof linearGaussianPolicy>, theta: Float64Array, seed: number, episodes = 20): ScoredSamples {
+function batchFor(
+  policy: ReturnType<typeof mlpGaussianPolicy> | ReturnType<typeof linearGaussianPolicy>,
+  theta: Float64Array,
+  seed: number,
+  episodes = 20,
+): ScoredSamples {
   const b = env.createBatch(episodes);
   env.collect(policy, theta, createStream(seed), b);
   const s = reinforce({ discount: 0.95 }).score(b);
   // copy: the estimator's buffers are reused by later calls
-  return { ...s, weights: s.weights.slice(), states: s.states.slice(), actions: s.actions.slice(), logProbs: s.logProbs.slice() };
+  return {
+    ...s,
+    weights: s.weights.slice(),
+    states: s.states.slice(),
+    actions: s.actions.slice(),
+    logProbs: s.logProbs.slice(),
+  };
 }
 
 describe("policyOptimizer: the update is the geometry's mirror step", () => {
   it("Euclidean geometry: θ⁺ = θ − η ∇L(θ) (vanilla policy gradient)", () => {
-    const pi = linearGaussianPolicy({ stateSize: 2, actionSize: 1, initialGain: [[1, 1.5]], initialStd: 0.5 });
+    const pi = linearGaussianPolicy({
+      stateSize: 2,
+      actionSize: 1,
+      initialGain: [[1, 1.5]],
+      initialStd: 0.5,
+    });
     const opt = policyOptimizer({ policy: pi, stepSize: 0.03 });
     const theta = opt.decision().slice();
     const s = batchFor(pi, theta, 1);
     const g = new Float64Array(pi.parameterCount);
     const L = surrogateLoss(pi, theta, s, g);
     opt.update({ samples: s });
-    for (let i = 0; i < theta.length; i++) expect(opt.decision()[i]).toBeCloseTo(theta[i] - 0.03 * g[i], 14);
+    for (let i = 0; i < theta.length; i++)
+      expect(opt.decision()[i]).toBeCloseTo(theta[i] - 0.03 * g[i], 14);
     expect(opt.round).toBe(1);
     expect(opt.lastReport?.surrogate).toBeCloseTo(L, 14);
   });
@@ -44,7 +65,14 @@ describe("policyOptimizer: the update is the geometry's mirror step", () => {
   it("Fisher geometry = core Mahalanobis geometry with the dense damped Fisher matrix as metric", () => {
     fc.assert(
       fc.property(fc.integer({ min: 0, max: 1e6 }), (seed) => {
-        const pi = mlpGaussianPolicy({ stateSize: 2, actionSize: 1, hidden: [4], seed, outputScale: 1, initialStd: 0.7 });
+        const pi = mlpGaussianPolicy({
+          stateSize: 2,
+          actionSize: 1,
+          hidden: [4],
+          seed,
+          outputScale: 1,
+          initialStd: 0.7,
+        });
         const theta = pi.initialParameters();
         const s = batchFor(pi, theta, seed, 4);
         const d = pi.parameterCount;
@@ -81,36 +109,66 @@ describe("policyOptimizer: the update is the geometry's mirror step", () => {
 
   it("KL trust region: every accepted step has measured mean KL ≤ δ and lowers the surrogate", () => {
     fc.assert(
-      fc.property(fc.double({ min: 1e-4, max: 0.2, noNaN: true }), fc.integer({ min: 0, max: 1e6 }), (delta, seed) => {
-        const pi = mlpGaussianPolicy({ stateSize: 2, actionSize: 1, hidden: [6], seed, outputScale: 0.5, initialStd: 0.6 });
-        const opt = policyOptimizer({ policy: pi, geometry: "fisher", trustRegion: { radius: delta } });
-        const theta0 = opt.decision().slice();
-        const s = batchFor(pi, theta0, seed + 1, 10);
-        opt.update({ samples: s });
-        const r = opt.lastReport;
-        if (r === null) throw new Error("no report");
-        const measured = pi.meanKl(theta0, opt.decision(), s.states, 0, s.count);
-        expect(measured).toBeLessThanOrEqual(delta);
-        expect(measured).toBeCloseTo(r.kl, 14);
-        if (r.accepted) expect(surrogateLoss(pi, opt.decision(), s, null)).toBeLessThan(r.surrogate);
-        else expect(Array.from(opt.decision())).toEqual(Array.from(theta0));
-      }),
+      fc.property(
+        fc.double({ min: 1e-4, max: 0.2, noNaN: true }),
+        fc.integer({ min: 0, max: 1e6 }),
+        (delta, seed) => {
+          const pi = mlpGaussianPolicy({
+            stateSize: 2,
+            actionSize: 1,
+            hidden: [6],
+            seed,
+            outputScale: 0.5,
+            initialStd: 0.6,
+          });
+          const opt = policyOptimizer({
+            policy: pi,
+            geometry: "fisher",
+            trustRegion: { radius: delta },
+          });
+          const theta0 = opt.decision().slice();
+          const s = batchFor(pi, theta0, seed + 1, 10);
+          opt.update({ samples: s });
+          const r = opt.lastReport;
+          if (r === null) throw new Error("no report");
+          const measured = pi.meanKl(theta0, opt.decision(), s.states, 0, s.count);
+          expect(measured).toBeLessThanOrEqual(delta);
+          expect(measured).toBeCloseTo(r.kl, 14);
+          if (r.accepted)
+            expect(surrogateLoss(pi, opt.decision(), s, null)).toBeLessThan(r.surrogate);
+          else expect(Array.from(opt.decision())).toEqual(Array.from(theta0));
+        },
+      ),
       { numRuns: 40 },
     );
   });
 });
 
 describe("policyOptimizer: failures and state", () => {
-  const pi = linearGaussianPolicy({ stateSize: 2, actionSize: 1, initialGain: [[1, 1.5]], initialStd: 0.5 });
+  const pi = linearGaussianPolicy({
+    stateSize: 2,
+    actionSize: 1,
+    initialGain: [[1, 1.5]],
+    initialStd: 0.5,
+  });
 
   for (const mode of ["fixed", "trust"] as const) {
     it(`${mode}: a batch with a non-finite weight is a typed error and leaves θ, the round and the report untouched`, () => {
-      const opt = policyOptimizer({ policy: pi, geometry: "fisher", stepSize: 0.05, trustRegion: mode === "trust" });
+      const opt = policyOptimizer({
+        policy: pi,
+        geometry: "fisher",
+        stepSize: 0.05,
+        trustRegion: mode === "trust",
+      });
       opt.update({ samples: batchFor(pi, opt.decision(), 3) });
       const before = opt.snapshot();
       const bad = batchFor(pi, opt.decision(), 4);
       bad.weights[5] = Number.NaN;
-      const err = catchRecedeError(() => opt.update({ samples: bad }), { code: "non-finite", fn: "PolicyOptimizer.update", arg: "feedback.samples" });
+      const err = catchRecedeError(() => opt.update({ samples: bad }), {
+        code: "non-finite",
+        fn: "PolicyOptimizer.update",
+        arg: "feedback.samples",
+      });
       expect(err).toBeInstanceOf(RecedeError);
       expect(Array.from(opt.decision())).toEqual(Array.from(before.decision));
       expect(opt.round).toBe(1);
@@ -147,19 +205,39 @@ describe("policyOptimizer: failures and state", () => {
   });
 
   it("option errors name the function, the option, the expectation and the value", () => {
-    catchRecedeError(() => policyOptimizer({ policy: pi, trustRegion: { radius: -1 } }), { fn: "policyOptimizer", arg: "trustRegion.radius", message: "-1" });
-    catchRecedeError(() => policyOptimizer({ policy: pi, geometry: mahalanobis({ metric: [[1]] }) }), { fn: "policyOptimizer", arg: "geometry.dimension" });
-    catchRecedeError(() => policyOptimizer({ policy: pi, initial: new Float64Array(2) }), { fn: "policyOptimizer", arg: "initial" });
-    catchRecedeError(() => fisherGeometry(pi, { damping: -1 }), { fn: "fisherGeometry", arg: "damping" });
+    catchRecedeError(() => policyOptimizer({ policy: pi, trustRegion: { radius: -1 } }), {
+      fn: "policyOptimizer",
+      arg: "trustRegion.radius",
+      message: "-1",
+    });
+    catchRecedeError(
+      () => policyOptimizer({ policy: pi, geometry: mahalanobis({ metric: [[1]] }) }),
+      { fn: "policyOptimizer", arg: "geometry.dimension" },
+    );
+    catchRecedeError(() => policyOptimizer({ policy: pi, initial: new Float64Array(2) }), {
+      fn: "policyOptimizer",
+      arg: "initial",
+    });
+    catchRecedeError(() => fisherGeometry(pi, { damping: -1 }), {
+      fn: "fisherGeometry",
+      arg: "damping",
+    });
     const geo = fisherGeometry(pi);
-    catchRecedeError(() => geo.step(new Float64Array(4), new Float64Array(4), 1, new Float64Array(4)), { code: "state" });
+    catchRecedeError(
+      () => geo.step(new Float64Array(4), new Float64Array(4), 1, new Float64Array(4)),
+      { code: "state" },
+    );
   });
 });
 
 describe("discrete actions: softmax policy with a control table", () => {
   it("the KL-trust-region update lowers the closed-loop cost of a bang-zero-bang policy", () => {
     // Double integrator with three accelerations {−2, 0, 2}, quadratic cost, x₀ ∼ N((1, 0), 0.1²I).
-    const denv = environmentFromProblem(problem, { horizon: 60, initialStateStd: 0.1, controls: [[-2], [0], [2]] });
+    const denv = environmentFromProblem(problem, {
+      horizon: 60,
+      initialStateStd: 0.1,
+      controls: [[-2], [0], [2]],
+    });
     const pi = softmaxPolicy({ stateSize: 2, actionCount: 3 });
     const opt = policyOptimizer({ policy: pi, geometry: "fisher", trustRegion: { radius: 0.05 } });
     const batch = denv.createBatch(60);

@@ -23,7 +23,11 @@ import {
 import { type ScoredSamples, surrogateLoss } from "../estimators/scoredSamples.js";
 import { requireFiniteArray, requireNonNegative, requireOpenUnit } from "../internal/validate.js";
 import type { StochasticPolicy } from "../policies/policy.js";
-import { type FisherGeometryOptions, fisherGeometry, type PreparableGeometry } from "./fisherGeometry.js";
+import {
+  type FisherGeometryOptions,
+  fisherGeometry,
+  type PreparableGeometry,
+} from "./fisherGeometry.js";
 
 /** Options of the KL trust region (see {@link policyOptimizer}). */
 export interface TrustRegionOptions {
@@ -179,7 +183,13 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
     this.cand = new Float64Array(d);
     this.fv = new Float64Array(d);
     this.played = new Float64Array(d);
-    this.record = { round: 0, decision: this.played, loss: Number.NaN, gradient: this.grad, lossObject: undefined };
+    this.record = {
+      round: 0,
+      decision: this.played,
+      loss: Number.NaN,
+      gradient: this.grad,
+      lossObject: undefined,
+    };
   }
 
   get round(): number {
@@ -203,7 +213,12 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
   }
 
   private checkSamples(fn: string, feedback: PolicyFeedback): ScoredSamples {
-    if (typeof feedback !== "object" || feedback === null || typeof feedback.samples !== "object" || feedback.samples === null) {
+    if (
+      typeof feedback !== "object" ||
+      feedback === null ||
+      typeof feedback.samples !== "object" ||
+      feedback.samples === null
+    ) {
       throw new RecedeError("type", fn, "feedback", "an object { samples }", feedback);
     }
     const s = feedback.samples;
@@ -213,7 +228,13 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
     requirePositive(fn, "feedback.samples.normalizer", s.normalizer);
     const need = (arr: unknown, len: number, name: string): void => {
       if (!(arr instanceof Float64Array) || arr.length < len) {
-        throw new RecedeError("dimension", fn, `feedback.samples.${name}`, `a Float64Array of length >= ${len}`, arr);
+        throw new RecedeError(
+          "dimension",
+          fn,
+          `feedback.samples.${name}`,
+          `a Float64Array of length >= ${len}`,
+          arr,
+        );
       }
     };
     need(s.states, s.count * n, "states");
@@ -290,7 +311,13 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
    * Assumes the geometry's step is affine in η (exact for unconstrained Euclidean, Mahalanobis
    * and Fisher geometries).
    */
-  private trustRegionStep(fn: string, s: ScoredSamples, L0: number, gnorm: number, cgBefore: number): PolicyStepReport {
+  private trustRegionStep(
+    fn: string,
+    s: ScoredSamples,
+    L0: number,
+    gnorm: number,
+    cgBefore: number,
+  ): PolicyStepReport {
     const tr = this.trustRegion as TrustRegion;
     const policy = this.policy;
     const d = this.dimension;
@@ -303,7 +330,13 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
     let finite = true;
     for (let i = 0; i < d; i++) if (!Number.isFinite(dir[i])) finite = false;
     if (!finite) {
-      throw new RecedeError("non-finite", fn, "geometry.step", "a finite direction", "a non-finite direction");
+      throw new RecedeError(
+        "non-finite",
+        fn,
+        "geometry.step",
+        "a finite direction",
+        "a non-finite direction",
+      );
     }
     policy.fisherVectorProduct(theta, s.states, 0, s.count, dir, this.fv);
     for (let i = 0; i < d; i++) {
@@ -316,7 +349,15 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
       gradientNorm: gnorm,
     };
     if (!(quad > 0) || !(slope < 0)) {
-      return { ...base, surrogateAfter: L0, stepSize: 0, kl: 0, backtracks: 0, accepted: false, cgIterations: this.cgCount() - cgBefore };
+      return {
+        ...base,
+        surrogateAfter: L0,
+        stepSize: 0,
+        kl: 0,
+        backtracks: 0,
+        accepted: false,
+        cgIterations: this.cgCount() - cgBefore,
+      };
     }
     const beta = Math.sqrt((2 * tr.radius) / quad);
     let eta = beta;
@@ -327,7 +368,15 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
       const kl = policy.meanKl(theta, cand, s.states, 0, s.count);
       if (Number.isFinite(L) && kl <= tr.radius && L0 - L > tr.accept * -slope * eta && L < L0) {
         theta.set(cand);
-        return { ...base, surrogateAfter: L, stepSize: eta, kl, backtracks: j, accepted: true, cgIterations: this.cgCount() - cgBefore };
+        return {
+          ...base,
+          surrogateAfter: L,
+          stepSize: eta,
+          kl,
+          backtracks: j,
+          accepted: true,
+          cgIterations: this.cgCount() - cgBefore,
+        };
       }
       eta *= tr.ratio;
     }
@@ -360,11 +409,18 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
 
   restore(snapshot: PolicyOptimizerSnapshot): void {
     const fn = "PolicyOptimizer.restore";
-    if (typeof snapshot !== "object" || snapshot === null) throw new RecedeError("type", fn, "snapshot", "a PolicyOptimizerSnapshot", snapshot);
+    if (typeof snapshot !== "object" || snapshot === null)
+      throw new RecedeError("type", fn, "snapshot", "a PolicyOptimizerSnapshot", snapshot);
     requireFiniteArray(fn, "snapshot.decision", snapshot.decision, this.dimension);
     requireInteger(fn, "snapshot.round", snapshot.round, 0);
     if ((this.inner !== null) !== (snapshot.inner !== null)) {
-      throw new RecedeError("state", fn, "snapshot", "taken from an optimizer in the same mode", "a snapshot of the other mode");
+      throw new RecedeError(
+        "state",
+        fn,
+        "snapshot",
+        "taken from an optimizer in the same mode",
+        "a snapshot of the other mode",
+      );
     }
     if (this.inner !== null && snapshot.inner !== null) this.inner.restore(snapshot.inner);
     this.theta.set(snapshot.decision);
@@ -399,26 +455,44 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
  */
 export function policyOptimizer(options: PolicyOptimizerOptions): PolicyOptimizer {
   const fn = "policyOptimizer";
-  if (typeof options !== "object" || options === null) throw new RecedeError("type", fn, "options", "an object", options);
+  if (typeof options !== "object" || options === null)
+    throw new RecedeError("type", fn, "options", "an object", options);
   const policy = options.policy;
-  if (typeof policy !== "object" || policy === null || typeof policy.addGradLogProb !== "function") {
+  if (
+    typeof policy !== "object" ||
+    policy === null ||
+    typeof policy.addGradLogProb !== "function"
+  ) {
     throw new RecedeError("type", fn, "policy", "a StochasticPolicy", policy);
   }
   const d = policy.parameterCount;
-  const initial = requireFiniteArray(fn, "initial", options.initial ?? policy.initialParameters(), d);
+  const initial = requireFiniteArray(
+    fn,
+    "initial",
+    options.initial ?? policy.initialParameters(),
+    d,
+  );
   const g = options.geometry ?? "euclidean";
   let geometry: Geometry;
   if (g === "euclidean") geometry = euclidean({ dimension: d });
   else if (g === "fisher") geometry = fisherGeometry(policy, options.fisher ?? {});
   else if (typeof g === "object" && g !== null && typeof g.step === "function") {
-    if (g.dimension !== d) throw new RecedeError("dimension", fn, "geometry.dimension", `${d} (the policy's parameter count)`, g.dimension);
+    if (g.dimension !== d)
+      throw new RecedeError(
+        "dimension",
+        fn,
+        "geometry.dimension",
+        `${d} (the policy's parameter count)`,
+        g.dimension,
+      );
     geometry = g;
   } else throw new RecedeError("type", fn, "geometry", '"euclidean", "fisher" or a Geometry', g);
   let trust: TrustRegion | null = null;
   const tr = options.trustRegion ?? false;
   if (tr !== false) {
     const o: TrustRegionOptions = tr === true ? {} : tr;
-    if (typeof o !== "object" || o === null) throw new RecedeError("type", fn, "trustRegion", "a boolean or an object", tr);
+    if (typeof o !== "object" || o === null)
+      throw new RecedeError("type", fn, "trustRegion", "a boolean or an object", tr);
     trust = {
       radius: requirePositive(fn, "trustRegion.radius", o.radius ?? 0.01),
       ratio: requireOpenUnit(fn, "trustRegion.backtrackRatio", o.backtrackRatio ?? 0.5),

@@ -13,6 +13,16 @@ export interface CircleObstacle {
   readonly y: number;
   /** Radius (m), already inflated by the robot's own radius if it has one. */
   readonly radius: number;
+  /**
+   * Velocity of the centre (m/s) along x, for a moving obstacle (a walking picker, a forklift).
+   * @defaultValue 0
+   */
+  readonly vx?: number;
+  /**
+   * Velocity of the centre (m/s) along y.
+   * @defaultValue 0
+   */
+  readonly vy?: number;
 }
 
 /** Options of {@link circleObstacles}. */
@@ -48,17 +58,37 @@ export interface CircleObstaclesOptions {
    * @defaultValue true
    */
   readonly terminal?: boolean;
+  /**
+   * Time per horizon step Δt (s), needed to move obstacles along the horizon.
+   * @defaultValue 0 (obstacles evaluated at the current time at every step)
+   */
+  readonly dt?: number;
+  /**
+   * Horizon H: the terminal cost sees moving obstacles at time + H·Δt.
+   * @defaultValue 0
+   */
+  readonly horizon?: number;
+}
+
+/** The obstacle cost, with a clock for moving obstacles. */
+export interface CircleObstaclesCost extends CostModel {
+  /** Current time (s): horizon step t sees centres at o_j + v_j·(time + t·Δt). */
+  readonly time: number;
+  /** Set the current time (s) before planning, e.g. episode step × Δt. */
+  setTime(seconds: number): void;
 }
 
 /**
  * Obstacle cost, summed over discs with centre o_j and radius ρ_j, d_j = ‖p − o_j‖:
- *   c(x) = Σ_j w·[ρ_j + c − d_j]₊² + collisionCost·1{d_j < ρ_j}.
+ *   c(x) = Σ_j w·[ρ_j + c − d_j]₊² + collisionCost·1{d_j < ρ_j},
+ * with moving centres o_j(τ) = o_j + v_j τ at τ = time + t·Δt for horizon step t (constant-velocity
+ * prediction, common practice for dynamic obstacles).
  * The smooth exterior term keeps samples away from the boundary; the indicator makes any collision
  * expensive for a sampling controller (common practice in sampling MPC, e.g. G. Williams et al.,
  * "Information-Theoretic Model Predictive Control: Theory and Applications to Autonomous Driving",
  * IEEE T-RO 34(6), 2018, which also charges crashes with a large constant).
  */
-export function circleObstacles(options: CircleObstaclesOptions): CostModel {
+export function circleObstacles(options: CircleObstaclesOptions): CircleObstaclesCost {
   const fn = "circleObstacles";
   const n = requireInteger(fn, "stateSize", options.stateSize, 2);
   const m = requireInteger(fn, "controlSize", options.controlSize, 0);
@@ -75,7 +105,11 @@ export function circleObstacles(options: CircleObstaclesOptions): CostModel {
   const ox = new Float64Array(J);
   const oy = new Float64Array(J);
   const rad = new Float64Array(J);
+  const vx = new Float64Array(J);
+  const vy = new Float64Array(J);
   options.obstacles.forEach((o, j) => {
+    vx[j] = requireFinite(fn, `obstacles[${j}].vx`, o.vx ?? 0);
+    vy[j] = requireFinite(fn, `obstacles[${j}].vy`, o.vy ?? 0);
     ox[j] = requireFinite(fn, `obstacles[${j}].x`, o.x);
     oy[j] = requireFinite(fn, `obstacles[${j}].y`, o.y);
     rad[j] = requireFinite(fn, `obstacles[${j}].radius`, o.radius);
@@ -90,12 +124,15 @@ export function circleObstacles(options: CircleObstaclesOptions): CostModel {
   const w = nonNegative("weight", options.weight ?? 100);
   const hit = nonNegative("collisionCost", options.collisionCost ?? 1000);
   const withTerminal = options.terminal ?? true;
-  const penalty = (x: Float64Array, b: number): number => {
+  const dt = nonNegative("dt", options.dt ?? 0);
+  const horizon = requireInteger(fn, "horizon", options.horizon ?? 0, 0);
+  let time = 0;
+  const penalty = (x: Float64Array, b: number, tau: number): number => {
     const px = x[b + ix];
     const py = x[b + iy];
     let s = 0;
     for (let j = 0; j < J; j++) {
-      const d = Math.hypot(px - ox[j], py - oy[j]);
+      const d = Math.hypot(px - ox[j] - vx[j] * tau, py - oy[j] - vy[j] * tau);
       const e = rad[j] + clearance - d;
       if (e > 0) s += w * e * e;
       if (d < rad[j]) s += hit;
@@ -105,12 +142,20 @@ export function circleObstacles(options: CircleObstaclesOptions): CostModel {
   return {
     stateSize: n,
     controlSize: m,
-    running(x, xo, _u, _uo, count, _t, out, oo): void {
-      for (let k = 0; k < count; k++) out[oo + k] += penalty(x, xo + k * n);
+    get time(): number {
+      return time;
+    },
+    setTime(seconds: number): void {
+      time = requireFinite("CircleObstaclesCost.setTime", "seconds", seconds);
+    },
+    running(x, xo, _u, _uo, count, t, out, oo): void {
+      const tau = time + t * dt;
+      for (let k = 0; k < count; k++) out[oo + k] += penalty(x, xo + k * n, tau);
     },
     terminal(x, xo, count, out, oo): void {
       if (!withTerminal) return;
-      for (let k = 0; k < count; k++) out[oo + k] += penalty(x, xo + k * n);
+      const tau = time + horizon * dt;
+      for (let k = 0; k < count; k++) out[oo + k] += penalty(x, xo + k * n, tau);
     },
   };
 }

@@ -1,5 +1,6 @@
 import { RecedeError } from "@recede/core";
 import { describe, expect, it } from "vitest";
+import { circleObstacles } from "./circleObstacles.js";
 import { quadraticCost } from "./quadraticCost.js";
 import { stateLimitPenalty } from "./stateLimitPenalty.js";
 import { sumCosts } from "./sumCosts.js";
@@ -138,5 +139,37 @@ describe("stateLimitPenalty and sumCosts", () => {
     expect(() => sumCosts(a, quadraticCost({ stateSize: 3, controlSize: 1, q: 1, r: 1 }))).toThrow(
       /terms\[1\] must be a cost with stateSize 2/,
     );
+  });
+});
+
+describe("circleObstacles", () => {
+  it("moves obstacles at constant velocity along the horizon and with setTime", () => {
+    const c = circleObstacles({
+      stateSize: 2,
+      controlSize: 1,
+      obstacles: [{ x: 0, y: 0, radius: 1, vx: 1 }],
+      clearance: 0,
+      weight: 1,
+      collisionCost: 10,
+      dt: 0.5,
+      horizon: 4,
+    });
+    const x = new Float64Array([2, 0]);
+    const u = new Float64Array(1);
+    const at = (t: number) => {
+      const o = new Float64Array(1);
+      c.running(x, 0, u, 0, 1, t, o, 0);
+      return o[0];
+    };
+    expect(at(0)).toBe(0); // centre at 0: distance 2
+    expect(at(2)).toBeCloseTo(0, 15); // centre at 1: distance 1, on the rim
+    expect(at(3)).toBeCloseTo(0.25 + 10, 12); // centre at 1.5: 0.5 inside
+    c.setTime(1.5);
+    expect(c.time).toBe(1.5);
+    expect(at(0)).toBeCloseTo(0.25 + 10, 12);
+    const term = new Float64Array(1);
+    c.terminal(x, 0, 1, term, 0); // centre at 1.5 + 4·0.5 = 3.5: distance 1.5
+    expect(term[0]).toBe(0);
+    expect(() => c.setTime(Number.NaN)).toThrow(/CircleObstaclesCost.setTime/);
   });
 });
