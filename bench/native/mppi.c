@@ -116,7 +116,8 @@ static inline double cp_quad(const double *w, const double *x) {
 static void cp_running(const double *p, const double *x, const double *u, int count, double *out) {
   for (int k = 0; k < count; k++) {
     const double e = u[k] - 0.0;
-    const double c = cp_quad(p + 5, x + 4 * k) + (0 + p[9] * e * e);
+    double c = cp_quad(p + 5, x + 4 * k);
+    c += p[9] * e * e;
     out[k] += c;
   }
   for (int k = 0; k < count; k++) out[k] += cp_penalty(p, x + 4 * k);
@@ -193,7 +194,10 @@ static inline double bk_penalty(const double *p, const double *x) {
 static void bk_running(const double *p, const double *x, const double *u, int count, double *out) {
   for (int k = 0; k < count; k++) {
     const double e0 = u[2 * k] - 0.0, e1 = u[2 * k + 1] - 0.0;
-    const double c = bk_quad(p + 3, p + 13, x + 4 * k) + (0 + p[7] * e0 * e0 + p[8] * e1 * e1);
+    /* one accumulation over state then control terms, as quadraticCost's diagonal fast path */
+    double c = bk_quad(p + 3, p + 13, x + 4 * k);
+    c += p[7] * e0 * e0;
+    c += p[8] * e1 * e1;
     out[k] += c;
   }
   for (int k = 0; k < count; k++) out[k] += bk_penalty(p, x + 4 * k);

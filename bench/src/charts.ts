@@ -39,8 +39,20 @@ const HEIGHT = 300;
 const FONT = { font: "Helvetica, Arial, sans-serif", labelFontSize: 12, titleFontSize: 13 };
 const CONFIG = {
   font: FONT.font,
-  axis: { labelFontSize: FONT.labelFontSize, titleFontSize: FONT.titleFontSize, grid: true, gridOpacity: 0.5 },
-  legend: { labelFontSize: FONT.labelFontSize, titleFontSize: FONT.titleFontSize, labelLimit: 320 },
+  axis: {
+    labelFontSize: FONT.labelFontSize,
+    titleFontSize: FONT.titleFontSize,
+    grid: true,
+    gridOpacity: 0.5,
+  },
+  legend: {
+    labelFontSize: FONT.labelFontSize,
+    titleFontSize: FONT.titleFontSize,
+    labelLimit: 320,
+    symbolOpacity: 1,
+    symbolType: "stroke",
+    symbolStrokeWidth: 3,
+  },
   title: { fontSize: 15, anchor: "start" as const, subtitleFontSize: 12, subtitleColor: "#555" },
   view: { stroke: "#ddd" },
 };
@@ -63,10 +75,40 @@ function curveRows(
     for (let t = 0; t < c.length; t += stride) {
       const i = c[t];
       if (!Number.isFinite(i.mean)) continue;
-      rows.push({ optimizer: g.optimizer, time: (t + 1) * dt, mean: i.mean, low: i.low, high: i.high });
+      rows.push({
+        optimizer: g.optimizer,
+        time: (t + 1) * dt,
+        mean: i.mean,
+        low: i.low,
+        high: i.high,
+      });
     }
   }
   return rows;
+}
+
+/**
+ * The y scale for curves: linear, unless the curves span more than a factor 20 (one optimizer far
+ * worse than the others would flatten the rest), then logarithmic for positive data and
+ * symmetric-logarithmic otherwise.
+ */
+function curveScale(rows: readonly Record<string, number | string>[]): {
+  type: "linear" | "log" | "symlog";
+  constant?: number;
+  note: string;
+} {
+  const finals = new Map<string, number>();
+  let min = Number.POSITIVE_INFINITY;
+  for (const r of rows) {
+    finals.set(r.optimizer as string, Math.abs(r.mean as number));
+    min = Math.min(min, r.low as number, r.mean as number);
+  }
+  const values = [...finals.values()].filter((v) => v > 0);
+  const spread = values.length > 1 ? Math.max(...values) / Math.min(...values) : 1;
+  if (spread <= 20) return { type: "linear", note: "" };
+  if (min > 0) return { type: "log", note: " (log scale)" };
+  // Linear within ±1% of the largest value, logarithmic beyond.
+  return { type: "symlog", constant: Math.max(...values) / 100, note: " (symmetric log scale)" };
 }
 
 function bandChart(
@@ -77,11 +119,17 @@ function bandChart(
   optimizers: readonly string[],
   xTitle: string,
 ): TopLevelSpec {
+  const scale = curveScale(rows);
   const color = {
     field: "optimizer",
     type: "nominal" as const,
     title: "optimizer",
     scale: colorScale(optimizers),
+  };
+  const y = {
+    type: "quantitative" as const,
+    title: `${yTitle}${scale.note}`,
+    scale: scale.constant ? { type: scale.type, constant: scale.constant } : { type: scale.type },
   };
   return {
     $schema: SCHEMA,
@@ -92,16 +140,16 @@ function bandChart(
     encoding: { x: { field: "time", type: "quantitative", title: xTitle } },
     layer: [
       {
-        mark: { type: "area", opacity: 0.18 },
+        mark: { type: "area", opacity: 0.18, clip: true },
         encoding: {
-          y: { field: "low", type: "quantitative", title: yTitle },
+          y: { field: "low", ...y },
           y2: { field: "high" },
           color,
         },
       },
       {
-        mark: { type: "line", strokeWidth: 2 },
-        encoding: { y: { field: "mean", type: "quantitative", title: yTitle }, color },
+        mark: { type: "line", strokeWidth: 2, clip: true },
+        encoding: { y: { field: "mean", ...y }, color },
       },
     ],
     config: CONFIG,
@@ -157,12 +205,24 @@ export async function regretChart(
   };
 }
 
+function formatMs(v: number): string {
+  if (!Number.isFinite(v)) return "–";
+  if (v >= 10) return `${v.toFixed(1)} ms`;
+  if (v >= 0.1) return `${v.toFixed(2)} ms`;
+  if (v >= 0.001) return `${(v * 1000).toFixed(0)} µs`;
+  return "< 1 µs";
+}
+
 /** Compute time per control step: median (bar) and 95th percentile (tick), per optimizer. */
-export async function computeChart(problem: string, timing: readonly GroupTiming[]): Promise<Chart> {
+export async function computeChart(
+  problem: string,
+  timing: readonly GroupTiming[],
+): Promise<Chart> {
   const rows = timing.map((t) => ({
     optimizer: t.optimizer,
     median: t.computeMedianMs,
     p95: t.computeP95Ms,
+    label: `median ${formatMs(t.computeMedianMs)} · p95 ${formatMs(t.computeP95Ms)}`,
   }));
   const optimizers = timing.map((t) => t.optimizer);
   const spec = {
@@ -172,15 +232,28 @@ export async function computeChart(problem: string, timing: readonly GroupTiming
       subtitle: "bar: median over steps (median over runs); black tick: 95th percentile",
     },
     width: WIDTH,
-    height: Math.max(120, 34 * rows.length),
+    height: Math.max(140, 44 * rows.length),
     data: { values: rows },
-    encoding: { y: { field: "optimizer", type: "nominal", title: null, sort: optimizers } },
+    encoding: {
+      y: {
+        field: "optimizer",
+        type: "nominal",
+        title: null,
+        sort: optimizers,
+        axis: { labelLimit: 320 },
+      },
+    },
     layer: [
       {
-        mark: { type: "bar", height: 20 },
+        mark: { type: "bar", height: 16 },
         encoding: {
           x: { field: "median", type: "quantitative", title: "milliseconds per control step" },
-          color: { field: "optimizer", type: "nominal", scale: colorScale(optimizers), legend: null },
+          color: {
+            field: "optimizer",
+            type: "nominal",
+            scale: colorScale(optimizers),
+            legend: null,
+          },
         },
       },
       {
@@ -188,10 +261,10 @@ export async function computeChart(problem: string, timing: readonly GroupTiming
         encoding: { x: { field: "p95", type: "quantitative" } },
       },
       {
-        mark: { type: "text", align: "left", dx: 6, fontSize: 11 },
+        mark: { type: "text", align: "left", dx: 4, dy: -13, fontSize: 11 },
         encoding: {
-          x: { field: "p95", type: "quantitative" },
-          text: { field: "median", type: "quantitative", format: ".3~f" },
+          x: { field: "median", type: "quantitative" },
+          text: { field: "label", type: "nominal" },
         },
       },
     ],
@@ -201,13 +274,16 @@ export async function computeChart(problem: string, timing: readonly GroupTiming
     file: `compute-${problem}.svg`,
     title: `Compute time per step — ${problem}`,
     caption:
-      "Wall time of one call that chooses a control (sampling, rollouts and update for MPC; a forward pass for a policy), measured on this machine. The number beside each bar is the median in ms.",
+      "Wall time of one call that chooses a control (sampling, rollouts and update for MPC; a forward pass for a policy), measured on this machine while other runs shared its cores.",
     svg: await renderSvg(spec),
   };
 }
 
 /** Samples per control step against mean episode cost (with 95% intervals). */
-export async function samplesCostChart(problem: string, groups: readonly GroupOutcome[]): Promise<Chart> {
+export async function samplesCostChart(
+  problem: string,
+  groups: readonly GroupOutcome[],
+): Promise<Chart> {
   const rows = groups.map((g) => ({
     optimizer: g.optimizer,
     samples: Math.max(1, g.samplesPerStep),
@@ -216,6 +292,10 @@ export async function samplesCostChart(problem: string, groups: readonly GroupOu
     high: g.cost.high,
   }));
   const optimizers = groups.map((g) => g.optimizer);
+  const costs = rows.map((r) => r.cost).filter((v) => Number.isFinite(v));
+  const logY =
+    costs.length > 1 && Math.min(...costs) > 0 && Math.max(...costs) / Math.min(...costs) > 20;
+  const yScale = logY ? { type: "log" } : { zero: false };
   const x = {
     field: "samples",
     type: "quantitative",
@@ -236,7 +316,12 @@ export async function samplesCostChart(problem: string, groups: readonly GroupOu
         mark: { type: "rule", strokeWidth: 2 },
         encoding: {
           x,
-          y: { field: "low", type: "quantitative", title: "episode cost", scale: { zero: false } },
+          y: {
+            field: "low",
+            type: "quantitative",
+            title: `episode cost${logY ? " (log scale)" : ""}`,
+            scale: yScale,
+          },
           y2: { field: "high" },
           color: { field: "optimizer", type: "nominal", scale: colorScale(optimizers) },
         },
@@ -245,8 +330,13 @@ export async function samplesCostChart(problem: string, groups: readonly GroupOu
         mark: { type: "point", filled: true, size: 90 },
         encoding: {
           x,
-          y: { field: "cost", type: "quantitative" },
-          color: { field: "optimizer", type: "nominal", scale: colorScale(optimizers), title: "optimizer" },
+          y: { field: "cost", type: "quantitative", scale: yScale },
+          color: {
+            field: "optimizer",
+            type: "nominal",
+            scale: colorScale(optimizers),
+            title: "optimizer",
+          },
           shape: { field: "optimizer", type: "nominal", title: "optimizer" },
         },
       },

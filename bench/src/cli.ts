@@ -21,7 +21,7 @@ import { builtinRegistry } from "./builtins.js";
 import { runDemo } from "./demo/demo.js";
 import { writeSweepOutputs } from "./outputs.js";
 import { SpecError } from "./params.js";
-import { currentMeta, textTable, summaryTable } from "./report.js";
+import { currentMeta, summaryTable, textTable } from "./report.js";
 import { appendResult, readResults } from "./results.js";
 import type { RunRecord } from "./run.js";
 import { parseShard } from "./spec.js";
@@ -97,7 +97,12 @@ export async function main(argv: readonly string[]): Promise<number> {
         quick: values.quick,
         keepTrajectory: values.trajectories,
       });
-      const files = await writeSweepOutputs(outDir, outcome.records, currentMeta(command_line), `Sweep ${outcome.spec.name}${shard ? ` (shard ${shard.index}/${shard.count})` : ""}`);
+      const files = await writeSweepOutputs(
+        outDir,
+        outcome.records,
+        currentMeta(command_line),
+        `Sweep ${outcome.spec.name}${shard ? ` (shard ${shard.index}/${shard.count})` : ""}`,
+      );
       process.stdout.write(`${textTable(summaryTable(summarize(outcome.records)))}\n\n`);
       process.stdout.write(
         `${outcome.executed} runs executed, ${outcome.skipped} resumed from ${outcome.resultsPath}\nwrote ${files.summaryMd}, ${files.reportHtml} and ${files.charts.length} charts\n`,
@@ -110,17 +115,30 @@ export async function main(argv: readonly string[]): Promise<number> {
         allowPositionals: true,
         options: { out: { type: "string" } },
       });
-      if (positionals.length === 0 || !values.out) return usage("merge needs shard folders and --out DIR");
+      if (positionals.length === 0 || !values.out)
+        return usage("merge needs shard folders and --out DIR");
       const records = mergeResults(positionals, values.out);
-      const files = await writeSweepOutputs(values.out, records, currentMeta(command_line), `Sweep (merged from ${positionals.length} folders)`);
-      process.stdout.write(`${textTable(summaryTable(summarize(records)))}\n\nmerged ${records.length} runs; wrote ${files.summaryMd} and ${files.reportHtml}\n`);
+      const files = await writeSweepOutputs(
+        values.out,
+        records,
+        currentMeta(command_line),
+        `Sweep (merged from ${positionals.length} folders)`,
+      );
+      process.stdout.write(
+        `${textTable(summaryTable(summarize(records)))}\n\nmerged ${records.length} runs; wrote ${files.summaryMd} and ${files.reportHtml}\n`,
+      );
       return 0;
     }
     case "report": {
       if (rest.length !== 1) return usage("report needs one folder");
       const records = readResults(join(rest[0], "results.jsonl"));
       if (records.length === 0) throw new SpecError(rest[0], "has no results.jsonl records");
-      const files = await writeSweepOutputs(rest[0], records, currentMeta(command_line), `Sweep report`);
+      const files = await writeSweepOutputs(
+        rest[0],
+        records,
+        currentMeta(command_line),
+        `Sweep report`,
+      );
       process.stdout.write(`wrote ${files.summaryMd} and ${files.reportHtml}\n`);
       return 0;
     }
@@ -164,7 +182,8 @@ function usage(message: string): number {
 
 function parseWorkers(text: string): number {
   const n = Number(text);
-  if (!Number.isInteger(n) || n < 1) throw new SpecError("--workers", `must be an integer ≥ 1 (got "${text}")`);
+  if (!Number.isInteger(n) || n < 1)
+    throw new SpecError("--workers", `must be an integer ≥ 1 (got "${text}")`);
   return n;
 }
 
@@ -180,7 +199,10 @@ export function mergeResults(dirs: readonly string[], outDir: string): RunRecord
     for (const r of readResults(path)) {
       const prev = byKey.get(r.key);
       if (prev && prev.config !== r.config)
-        throw new SpecError(path, `run ${r.key} was made with another configuration than in an earlier folder`);
+        throw new SpecError(
+          path,
+          `run ${r.key} was made with another configuration than in an earlier folder`,
+        );
       byKey.set(r.key, r);
     }
   }
@@ -195,7 +217,10 @@ export function mergeResults(dirs: readonly string[], outDir: string): RunRecord
 function describeKinds(): string {
   const r = builtinRegistry();
   const lines: string[] = ["problems:"];
-  const param = (name: string, s: { type: string; description: string; default?: unknown }): string =>
+  const param = (
+    name: string,
+    s: { type: string; description: string; default?: unknown },
+  ): string =>
     `      ${name} (${s.type}${s.default !== undefined ? `, default ${JSON.stringify(s.default)}` : ""}): ${s.description}`;
   for (const id of r.problemIds()) {
     const d = r.problem(id)!;
@@ -232,12 +257,15 @@ async function runSuites(args: readonly string[]): Promise<number> {
     return 1;
   }
   for (const n of names)
-    if (!available.includes(n)) return usage(`unknown suite "${n}"; available: ${available.join(", ") || "(none)"}`);
+    if (!available.includes(n))
+      return usage(`unknown suite "${n}"; available: ${available.join(", ") || "(none)"}`);
   const resultsDir = join(benchRoot, "results");
   mkdirSync(resultsDir, { recursive: true });
   let status = 0;
   for (const name of names) {
-    const mod = (await import(pathToFileURL(join(suiteDir, `${name}${ext}`)).href)) as { suite?: Suite };
+    const mod = (await import(pathToFileURL(join(suiteDir, `${name}${ext}`)).href)) as {
+      suite?: Suite;
+    };
     if (!mod.suite || typeof mod.suite.run !== "function") {
       process.stderr.write(`recede-bench: ${name}${ext} does not export \`suite\`\n`);
       status = 1;
@@ -249,7 +277,10 @@ async function runSuites(args: readonly string[]): Promise<number> {
       quick: values.quick,
       log: (m: string) => process.stderr.write(`  ${m}\n`),
     });
-    const meta = { ...currentMeta(`pnpm bench ${name}${values.quick ? " --quick" : ""}`), seconds: (Date.now() - started) / 1000 };
+    const meta = {
+      ...currentMeta(`pnpm bench ${name}${values.quick ? " --quick" : ""}`),
+      seconds: (Date.now() - started) / 1000,
+    };
     const path = join(resultsDir, `${name}.json`);
     writeFileSync(path, `${JSON.stringify({ meta, ...output.result }, null, 2)}\n`);
     for (const line of output.lines) process.stdout.write(`${name}: ${line}\n`);
@@ -258,18 +289,25 @@ async function runSuites(args: readonly string[]): Promise<number> {
   return status;
 }
 
-const isMain = process.argv[1] !== undefined && import.meta.url === pathToFileURL(process.argv[1]).href;
+const isMain =
+  process.argv[1] !== undefined && import.meta.url === pathToFileURL(process.argv[1]).href;
 if (isMain) {
   main(process.argv.slice(2)).then(
     (code) => {
       process.exitCode = code;
     },
     (e: unknown) => {
-      if (e instanceof SpecError) {
-        process.stderr.write(`recede-bench: ${e.message}\n`);
+      const code = (e as { code?: unknown }).code;
+      if (
+        e instanceof SpecError ||
+        (typeof code === "string" && code.startsWith("ERR_PARSE_ARGS"))
+      ) {
+        process.stderr.write(`recede-bench: ${(e as Error).message}\n`);
         process.exitCode = 2;
       } else {
-        process.stderr.write(`recede-bench: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+        process.stderr.write(
+          `recede-bench: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`,
+        );
         process.exitCode = 1;
       }
     },

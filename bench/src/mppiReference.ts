@@ -76,7 +76,8 @@ class MppiReference implements ReferenceStep {
     const len = cfg.horizon * m;
     const root = createStream(cfg.seed);
     this.streams = [];
-    for (let s = 0; s < Math.ceil(cfg.samples / cfg.sliceSize); s++) this.streams.push(root.fork(s));
+    for (let s = 0; s < Math.ceil(cfg.samples / cfg.sliceSize); s++)
+      this.streams.push(root.fork(s));
     this.mean = Float64Array.from(cfg.mean);
     this.initial = Float64Array.from(cfg.mean);
     this.std = Float64Array.from(cfg.std);
@@ -121,16 +122,11 @@ class MppiReference implements ReferenceStep {
       if (m === 1) {
         const l = lower[0];
         const h = upper[0];
-        for (let p = start; p < end; p++) {
-          const v = buf[p];
-          buf[p] = v < l ? l : v > h ? h : v;
-        }
+        for (let p = start; p < end; p++) buf[p] = Math.min(Math.max(buf[p], l), h);
       } else {
         for (let p = start; p < end; p += m) {
-          for (let j = 0; j < m; j++) {
-            const v = buf[p + j];
-            buf[p + j] = v < lower[j] ? lower[j] : v > upper[j] ? upper[j] : v;
-          }
+          for (let j = 0; j < m; j++)
+            buf[p + j] = Math.min(Math.max(buf[p + j], lower[j]), upper[j]);
         }
       }
       this.rollout(x0, from, count);
@@ -321,7 +317,7 @@ function cartPoleRunning(
     const e3 = x[b + 3] - 0;
     const q = 0 + p[5] * e0 * e0 + p[6] * e1 * e1 + p[7] * e2 * e2 + p[8] * e3 * e3;
     const eu = u[uo + k] - 0;
-    out[oo + k] += q + (0 + p[9] * eu * eu);
+    out[oo + k] += q + p[9] * eu * eu;
   }
   for (let k = 0; k < count; k++) out[oo + k] += cartPolePenalty(p, x[xo + 4 * k]);
 }
@@ -427,7 +423,8 @@ function bicycleRunning(
   for (let k = 0; k < count; k++) {
     const e0 = u[uo + 2 * k] - 0;
     const e1 = u[uo + 2 * k + 1] - 0;
-    out[oo + k] += bicycleQuad(p, 3, x, xo + 4 * k) + (0 + p[7] * e0 * e0 + p[8] * e1 * e1);
+    // One accumulation over the state then the control terms (quadraticCost's diagonal path).
+    out[oo + k] += bicycleQuad(p, 3, x, xo + 4 * k) + p[7] * e0 * e0 + p[8] * e1 * e1;
   }
   for (let k = 0; k < count; k++) out[oo + k] += bicyclePenalty(p, x[xo + 4 * k + 3]);
 }

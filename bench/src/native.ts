@@ -22,7 +22,12 @@ export const nativeBuildDir: string = fileURLToPath(new URL("../native/build/", 
 
 /** Result of {@link buildNative}. */
 export type NativeBuild =
-  | { readonly ok: true; readonly binary: string; readonly compiler: string; readonly flags: string }
+  | {
+      readonly ok: true;
+      readonly binary: string;
+      readonly compiler: string;
+      readonly flags: string;
+    }
   | { readonly ok: false; readonly reason: string };
 
 const FLAGS = ["-O2", "-ffp-contract=off"];
@@ -156,7 +161,14 @@ export function nativeInput(cfg: NativeRunConfig): string {
   }
   const z = zigguratTables();
   const lines = [
-    [cfg.model === "cart-pole" ? 0 : 1, cfg.samples, cfg.horizon, cfg.sliceSize, cfg.warmup, cfg.steps].join(" "),
+    [
+      cfg.model === "cart-pole" ? 0 : 1,
+      cfg.samples,
+      cfg.horizon,
+      cfg.sliceSize,
+      cfg.warmup,
+      cfg.steps,
+    ].join(" "),
     [cfg.params.length, ...cfg.params.map(num)].join(" "),
     Array.from(cfg.state, num).join(" "),
     Array.from(cfg.mean, num).join(" "),

@@ -9,8 +9,9 @@
  *
  * @module
  */
-import { mpcOptimizerDefinitions } from "./optimizers/mpc.js";
+
 import { distilledDefinition } from "./optimizers/distilled.js";
+import { mpcOptimizerDefinitions } from "./optimizers/mpc.js";
 import type { BenchController, BenchProblem, OptimizerDefinition } from "./registry.js";
 
 /** The `nominal` baseline: u_t = ū (the equilibrium control, or zero) at every step. */

@@ -23,7 +23,7 @@ import {
   summaryTable,
 } from "./report.js";
 import type { RunRecord } from "./run.js";
-import { sortRecords, type SweepSummary, summarize } from "./summary.js";
+import { type SweepSummary, sortRecords, summarize } from "./summary.js";
 
 /** The files written by {@link writeSweepOutputs}. */
 export interface SweepFiles {
@@ -34,7 +34,10 @@ export interface SweepFiles {
 }
 
 /** The standard charts for each problem of a summary. */
-export async function sweepCharts(summary: SweepSummary, records: readonly RunRecord[]): Promise<Chart[]> {
+export async function sweepCharts(
+  summary: SweepSummary,
+  records: readonly RunRecord[],
+): Promise<Chart[]> {
   const charts: Chart[] = [];
   const problems = [...new Set(summary.outcomes.map((o) => o.problem))];
   for (const p of problems) {
@@ -42,7 +45,12 @@ export async function sweepCharts(summary: SweepSummary, records: readonly RunRe
     const dt = records.find((r) => r.problem === p && Number.isFinite(r.dt))?.dt ?? 1;
     charts.push(await costCurveChart(p, groups, dt));
     if (groups.length > 1) charts.push(await regretChart(p, groups, dt));
-    charts.push(await computeChart(p, summary.timing.filter((t) => t.problem === p)));
+    charts.push(
+      await computeChart(
+        p,
+        summary.timing.filter((t) => t.problem === p),
+      ),
+    );
     charts.push(await samplesCostChart(p, groups));
   }
   return charts;
@@ -62,6 +70,8 @@ export async function writeSweepOutputs(
     markdownName?: string;
     /** Sub-folder for the SVG charts ("" = beside the report). @defaultValue "charts" */
     chartDir?: string;
+    /** Column titles for scenario metrics, by metric name. */
+    metricLabels?: Readonly<Record<string, string>>;
   } = {},
 ): Promise<SweepFiles> {
   const chartDir = extra.chartDir ?? "charts";
@@ -88,7 +98,7 @@ export async function writeSweepOutputs(
     intro: extra.intro ?? [
       `${summary.runs} runs. Costs are means over seeds with 95% Student-t confidence intervals (the episodes of a seed are averaged first).`,
     ],
-    table: summaryTable(summary),
+    table: summaryTable(summary, extra.metricLabels),
     charts: charts.map((c) => ({ ...c, file: chartDir ? `${chartDir}/${c.file}` : c.file })),
     sections,
     meta,

@@ -147,13 +147,17 @@ export function validateParams(
         break;
       }
       case "boolean":
-        if (typeof v !== "boolean") throw new SpecError(p, `must be true or false (got ${show(v)})`);
+        if (typeof v !== "boolean")
+          throw new SpecError(p, `must be true or false (got ${show(v)})`);
         out[key] = v;
         break;
       case "string":
         if (typeof v !== "string") throw new SpecError(p, `must be a string (got ${show(v)})`);
         if (s.values && !s.values.includes(v))
-          throw new SpecError(p, `must be one of ${s.values.map((x) => `"${x}"`).join(", ")} (got ${show(v)})`);
+          throw new SpecError(
+            p,
+            `must be one of ${s.values.map((x) => `"${x}"`).join(", ")} (got ${show(v)})`,
+          );
         out[key] = v;
         break;
       case "optimizer":
@@ -162,7 +166,8 @@ export function validateParams(
         out[key] = v;
         break;
       case "numbers": {
-        if (!Array.isArray(v)) throw new SpecError(p, `must be an array of numbers (got ${show(v)})`);
+        if (!Array.isArray(v))
+          throw new SpecError(p, `must be an array of numbers (got ${show(v)})`);
         if (s.length !== undefined && v.length !== s.length)
           throw new SpecError(p, `must have ${s.length} entries (got ${v.length})`);
         v.forEach((e, i) => {

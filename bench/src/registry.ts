@@ -99,7 +99,9 @@ export interface FactoryContext {
   /** The registry (to build nested optimizers, e.g. the expert of a distilled policy). */
   readonly registry: Registry;
   /** The optimizer entry of the sweep with this label (for parameters of type "optimizer"). */
-  optimizerEntry(label: string): { readonly kind: string; readonly params: ParamValues } | undefined;
+  optimizerEntry(
+    label: string,
+  ): { readonly kind: string; readonly params: ParamValues } | undefined;
 }
 
 /** A problem kind the sweep file can name in `problems[i].problem`. */

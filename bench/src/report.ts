@@ -59,7 +59,10 @@ export interface SummaryTable {
 }
 
 /** The summary table: one row per (problem, optimizer). */
-export function summaryTable(summary: SweepSummary, metricLabels: Readonly<Record<string, string>> = {}): SummaryTable {
+export function summaryTable(
+  summary: SweepSummary,
+  metricLabels: Readonly<Record<string, string>> = {},
+): SummaryTable {
   const metricNames = [...new Set(summary.outcomes.flatMap((o) => Object.keys(o.metrics)))].sort();
   const header = [
     "problem",
@@ -105,15 +108,25 @@ export function markdownTable(table: SummaryTable): string {
 
 /** Render a table as fixed-width text for the terminal. */
 export function textTable(table: SummaryTable): string {
-  const widths = table.header.map((h, i) => Math.max(h.length, ...table.rows.map((r) => r[i].length)));
+  const widths = table.header.map((h, i) =>
+    Math.max(h.length, ...table.rows.map((r) => r[i].length)),
+  );
   const line = (cells: readonly string[]): string =>
     cells.map((c, i) => (i < 2 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join("  ");
-  return [line(table.header), widths.map((w) => "-".repeat(w)).join("  "), ...table.rows.map(line)].join("\n");
+  return [
+    line(table.header),
+    widths.map((w) => "-".repeat(w)).join("  "),
+    ...table.rows.map(line),
+  ].join("\n");
 }
 
 /** Escape text for HTML. */
 export function escapeHtml(s: string): string {
-  return s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
+  return s
+    .replace(/&/g, "&amp;")
+    .replace(/</g, "&lt;")
+    .replace(/>/g, "&gt;")
+    .replace(/"/g, "&quot;");
 }
 
 /** A section of prose in a report (Markdown-free: paragraphs of plain text, or a definition list). */
@@ -144,7 +157,8 @@ export function markdownReport(c: ReportContent): string {
     if (s.items) out.push("");
   }
   out.push("## Charts", "");
-  for (const ch of c.charts) out.push(`### ${ch.title}`, "", `![${ch.title}](${ch.file})`, "", ch.caption, "");
+  for (const ch of c.charts)
+    out.push(`### ${ch.title}`, "", `![${ch.title}](${ch.file})`, "", ch.caption, "");
   out.push("## Run", "", ...metaLines(c.meta).map((l) => `- ${l}`), "");
   return out.join("\n");
 }
@@ -162,13 +176,18 @@ function metaLines(m: RunMeta): string[] {
 export function htmlReport(c: ReportContent): string {
   const e = escapeHtml;
   const table = `<table><thead><tr>${c.table.header.map((h) => `<th>${e(h)}</th>`).join("")}</tr></thead><tbody>${c.table.rows
-    .map((r) => `<tr>${r.map((v, i) => `<td${i >= 2 ? ' class="num"' : ""}>${e(v)}</td>`).join("")}</tr>`)
+    .map(
+      (r) =>
+        `<tr>${r.map((v, i) => `<td${i >= 2 ? ' class="num"' : ""}>${e(v)}</td>`).join("")}</tr>`,
+    )
     .join("")}</tbody></table>`;
   const sections = c.sections
     .map(
       (s) =>
         `<section><h2>${e(s.heading)}</h2>${(s.paragraphs ?? []).map((p) => `<p>${e(p)}</p>`).join("")}${
-          s.items ? `<dl>${s.items.map(([k, v]) => `<dt>${e(k)}</dt><dd>${e(v)}</dd>`).join("")}</dl>` : ""
+          s.items
+            ? `<dl>${s.items.map(([k, v]) => `<dt>${e(k)}</dt><dd>${e(v)}</dd>`).join("")}</dl>`
+            : ""
         }</section>`,
     )
     .join("\n");

@@ -5,7 +5,7 @@
  *
  * @module
  */
-import { appendFileSync, existsSync, readFileSync } from "node:fs";
+import { appendFileSync, existsSync, readFileSync, truncateSync } from "node:fs";
 import type { RunRecord } from "./run.js";
 
 /** Read every complete record of a results file (none when it does not exist). */
@@ -26,11 +26,27 @@ export function readResults(path: string): RunRecord[] {
   return out;
 }
 
+/**
+ * Cut a partial last line (left by a kill in the middle of a write) so that appends start on a
+ * fresh line. Returns true when something was cut.
+ */
+export function repairResults(path: string): boolean {
+  if (!existsSync(path)) return false;
+  const buf = readFileSync(path);
+  if (buf.length === 0 || buf[buf.length - 1] === 0x0a) return false;
+  const cut = buf.lastIndexOf(0x0a);
+  truncateSync(path, cut + 1);
+  return true;
+}
+
 /** JSON has no NaN: failed runs are written with null and read back as NaN. */
 function revive(r: RunRecord): RunRecord {
   const nan = (v: unknown): number => (typeof v === "number" ? v : Number.NaN);
+  const metrics: Record<string, number> = {};
+  for (const [k, v] of Object.entries(r.metrics ?? {})) metrics[k] = nan(v);
   return {
     ...r,
+    metrics,
     cost: nan(r.cost),
     computeMedianMs: nan(r.computeMedianMs),
     computeP95Ms: nan(r.computeP95Ms),

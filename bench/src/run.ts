@@ -110,7 +110,24 @@ export async function executeRun(
   }
 }
 
-function failed(base: Omit<RunRecord, "cost" | "success" | "violations" | "dt" | "steps" | "samplesPerStep" | "computeMedianMs" | "computeP95Ms" | "setupMs" | "costSeries" | "metrics">, e: unknown, setupMs: number): RunRecord {
+function failed(
+  base: Omit<
+    RunRecord,
+    | "cost"
+    | "success"
+    | "violations"
+    | "dt"
+    | "steps"
+    | "samplesPerStep"
+    | "computeMedianMs"
+    | "computeP95Ms"
+    | "setupMs"
+    | "costSeries"
+    | "metrics"
+  >,
+  e: unknown,
+  setupMs: number,
+): RunRecord {
   return {
     ...base,
     cost: Number.NaN,
@@ -156,7 +173,8 @@ export function simulate(
     times[t] = performance.now() - start;
     for (let j = 0; j < m; j++) {
       const v = r.control[j];
-      if (!Number.isFinite(v)) throw new Error(`controller returned a non-finite control at step ${t}`);
+      if (!Number.isFinite(v))
+        throw new Error(`controller returned a non-finite control at step ${t}`);
       u[j] = Math.min(problem.bounds.upper[j], Math.max(problem.bounds.lower[j], v));
     }
     samples += r.samples;
@@ -176,7 +194,10 @@ export function simulate(
   for (const c of costSeries) cost += c;
   const outcome = problem.outcome(states, steps + 1);
   const used = times.subarray(0, steps);
-  const record: Omit<RunRecord, "key" | "problem" | "optimizer" | "seed" | "episode" | "config" | "setupMs"> = {
+  const record: Omit<
+    RunRecord,
+    "key" | "problem" | "optimizer" | "seed" | "episode" | "config" | "setupMs"
+  > = {
     cost,
     success: outcome.success,
     violations,

@@ -8,7 +8,10 @@ const registry = builtinRegistry();
 
 const good = {
   name: "small",
-  problems: [{ problem: "double-integrator", steps: 20 }, { problem: "pendulum", label: "pend" }],
+  problems: [
+    { problem: "double-integrator", steps: 20 },
+    { problem: "pendulum", label: "pend" },
+  ],
   optimizers: [
     { label: "mppi-64", kind: "mppi", samples: 64, horizon: 10 },
     { kind: "cem", samples: 32, horizon: 10 },
@@ -46,24 +49,150 @@ describe("parseSweepSpec", () => {
   });
 
   it.each([
-    ["a number that is not an integer", (s: Record<string, unknown>) => { opt(s, 0).samples = 0.5; }, "optimizers[0].samples", "integer"],
-    ["a number below its minimum", (s: Record<string, unknown>) => { opt(s, 1).samples = 0; }, "optimizers[1].samples", "≥ 1"],
-    ["a wrong type", (s: Record<string, unknown>) => { opt(s, 0).temperature = "hot"; }, "optimizers[0].temperature", "finite number"],
-    ["a non-positive temperature", (s: Record<string, unknown>) => { opt(s, 0).temperature = 0; }, "optimizers[0].temperature", "> 0"],
-    ["a typo in a field name", (s: Record<string, unknown>) => { opt(s, 0).temprature = 1; }, "optimizers[0].temprature", 'did you mean "temperature"'],
-    ["an unknown kind", (s: Record<string, unknown>) => { opt(s, 2).kind = "mpi"; }, "optimizers[2].kind", 'did you mean "mppi"'],
-    ["an unknown problem", (s: Record<string, unknown>) => { (s.problems as Record<string, unknown>[])[0].problem = "pendulm"; }, "problems[0].problem", 'did you mean "pendulum"'],
-    ["a bad enum value", (s: Record<string, unknown>) => { opt(s, 1).spreadFill = "keep"; }, "optimizers[1].spreadFill", '"repeat", "initial", "reset"'],
-    ["a bad array entry", (s: Record<string, unknown>) => { opt(s, 0).noise = [1, -2]; }, "optimizers[0].noise[1]", "> 0"],
-    ["a duplicate label", (s: Record<string, unknown>) => { opt(s, 1).label = "mppi-64"; }, "optimizers[1].label", "unique"],
-    ["an unknown problem label in only", (s: Record<string, unknown>) => { opt(s, 2).only = ["cart"]; }, "optimizers[2].only[0]", "problem labels"],
-    ["a negative seed", (s: Record<string, unknown>) => { s.seeds = [1, -1]; }, "seeds[1]", "≥ 0"],
-    ["a repeated seed", (s: Record<string, unknown>) => { s.seeds = [1, 1]; }, "seeds", "repeat"],
-    ["a bad seed count", (s: Record<string, unknown>) => { s.seeds = { count: 0 }; }, "seeds.count", "≥ 1"],
-    ["zero episodes", (s: Record<string, unknown>) => { s.episodes = 0; }, "episodes", "≥ 1"],
-    ["an unknown top-level field", (s: Record<string, unknown>) => { s.optimisers = []; }, "optimisers", 'did you mean "optimizers"'],
-    ["no optimizers", (s: Record<string, unknown>) => { s.optimizers = []; }, "optimizers", "non-empty"],
-    ["an expert that is not in the sweep", (s: Record<string, unknown>) => { (s.optimizers as unknown[]).push({ kind: "distilled", expert: "nobody" }); }, "optimizers[3].expert", "another optimizer entry"],
+    [
+      "a number that is not an integer",
+      (s: Record<string, unknown>) => {
+        opt(s, 0).samples = 0.5;
+      },
+      "optimizers[0].samples",
+      "integer",
+    ],
+    [
+      "a number below its minimum",
+      (s: Record<string, unknown>) => {
+        opt(s, 1).samples = 0;
+      },
+      "optimizers[1].samples",
+      "≥ 1",
+    ],
+    [
+      "a wrong type",
+      (s: Record<string, unknown>) => {
+        opt(s, 0).temperature = "hot";
+      },
+      "optimizers[0].temperature",
+      "finite number",
+    ],
+    [
+      "a non-positive temperature",
+      (s: Record<string, unknown>) => {
+        opt(s, 0).temperature = 0;
+      },
+      "optimizers[0].temperature",
+      "> 0",
+    ],
+    [
+      "a typo in a field name",
+      (s: Record<string, unknown>) => {
+        opt(s, 0).temprature = 1;
+      },
+      "optimizers[0].temprature",
+      'did you mean "temperature"',
+    ],
+    [
+      "an unknown kind",
+      (s: Record<string, unknown>) => {
+        opt(s, 2).kind = "mpi";
+      },
+      "optimizers[2].kind",
+      'did you mean "mppi"',
+    ],
+    [
+      "an unknown problem",
+      (s: Record<string, unknown>) => {
+        (s.problems as Record<string, unknown>[])[0].problem = "pendulm";
+      },
+      "problems[0].problem",
+      'did you mean "pendulum"',
+    ],
+    [
+      "a bad enum value",
+      (s: Record<string, unknown>) => {
+        opt(s, 1).spreadFill = "keep";
+      },
+      "optimizers[1].spreadFill",
+      '"repeat", "initial", "reset"',
+    ],
+    [
+      "a bad array entry",
+      (s: Record<string, unknown>) => {
+        opt(s, 0).noise = [1, -2];
+      },
+      "optimizers[0].noise[1]",
+      "> 0",
+    ],
+    [
+      "a duplicate label",
+      (s: Record<string, unknown>) => {
+        opt(s, 1).label = "mppi-64";
+      },
+      "optimizers[1].label",
+      "unique",
+    ],
+    [
+      "an unknown problem label in only",
+      (s: Record<string, unknown>) => {
+        opt(s, 2).only = ["cart"];
+      },
+      "optimizers[2].only[0]",
+      "problem labels",
+    ],
+    [
+      "a negative seed",
+      (s: Record<string, unknown>) => {
+        s.seeds = [1, -1];
+      },
+      "seeds[1]",
+      "≥ 0",
+    ],
+    [
+      "a repeated seed",
+      (s: Record<string, unknown>) => {
+        s.seeds = [1, 1];
+      },
+      "seeds",
+      "repeat",
+    ],
+    [
+      "a bad seed count",
+      (s: Record<string, unknown>) => {
+        s.seeds = { count: 0 };
+      },
+      "seeds.count",
+      "≥ 1",
+    ],
+    [
+      "zero episodes",
+      (s: Record<string, unknown>) => {
+        s.episodes = 0;
+      },
+      "episodes",
+      "≥ 1",
+    ],
+    [
+      "an unknown top-level field",
+      (s: Record<string, unknown>) => {
+        s.optimisers = [];
+      },
+      "optimisers",
+      'did you mean "optimizers"',
+    ],
+    [
+      "no optimizers",
+      (s: Record<string, unknown>) => {
+        s.optimizers = [];
+      },
+      "optimizers",
+      "non-empty",
+    ],
+    [
+      "an expert that is not in the sweep",
+      (s: Record<string, unknown>) => {
+        (s.optimizers as unknown[]).push({ kind: "distilled", expert: "nobody" });
+      },
+      "optimizers[3].expert",
+      "another optimizer entry",
+    ],
   ])("rejects %s, naming the field", (_what, mutate, path, words) => {
     const e = errorOf(mutate);
     expect(e.path).toBe(path);

@@ -19,7 +19,7 @@
  *
  * @module
  */
-import { type ParamValues, SpecError, show, validateParams, closest } from "./params.js";
+import { closest, type ParamValues, SpecError, show, validateParams } from "./params.js";
 import type { Registry } from "./registry.js";
 
 /** One validated problem entry. */
@@ -94,7 +94,8 @@ export function pluginPaths(raw: unknown): string[] {
 
 /** Validate a parsed JSON sweep file against `registry`. */
 export function parseSweepSpec(raw: unknown, registry: Registry): SweepSpec {
-  if (!isObject(raw)) throw new SpecError("(top level)", `must be a JSON object (got ${show(raw)})`);
+  if (!isObject(raw))
+    throw new SpecError("(top level)", `must be a JSON object (got ${show(raw)})`);
   for (const key of Object.keys(raw)) {
     if (!TOP.includes(key)) {
       const hint = closest(key, TOP);
@@ -145,7 +146,10 @@ export function parseSweepSpec(raw: unknown, registry: Registry): SweepSpec {
     let only: string[] | undefined;
     if (o.only !== undefined) {
       if (!Array.isArray(o.only) || o.only.length === 0)
-        throw new SpecError(`${path}.only`, `must be a non-empty array of problem labels (got ${show(o.only)})`);
+        throw new SpecError(
+          `${path}.only`,
+          `must be a non-empty array of problem labels (got ${show(o.only)})`,
+        );
       only = o.only.map((l, j) => {
         if (typeof l !== "string" || !problemLabels.includes(l))
           throw new SpecError(
@@ -183,7 +187,8 @@ export function parseSweepSpec(raw: unknown, registry: Registry): SweepSpec {
       return s;
     });
     const dup = seeds.find((s, i) => seeds.indexOf(s) !== i);
-    if (dup !== undefined) throw new SpecError("seeds", `must not repeat a seed (${dup} appears twice)`);
+    if (dup !== undefined)
+      throw new SpecError("seeds", `must not repeat a seed (${dup} appears twice)`);
   } else if (isObject(raw.seeds)) {
     for (const key of Object.keys(raw.seeds))
       if (key !== "first" && key !== "count")
@@ -266,9 +271,7 @@ export function enumerateRuns(spec: SweepSpec): RunCell[] {
   for (const p of spec.problems) {
     for (const o of spec.optimizers) {
       if (o.only && !o.only.includes(p.label)) continue;
-      const config = fnv1a(
-        canonicalJson({ p: p.problem, pp: p.params, o: o.kind, op: o.params }),
-      );
+      const config = fnv1a(canonicalJson({ p: p.problem, pp: p.params, o: o.kind, op: o.params }));
       for (const seed of spec.seeds) {
         for (let e = 0; e < spec.episodes; e++) {
           runs.push({
@@ -299,7 +302,10 @@ export function parseShard(text: string): Shard {
   const index = Number(m[1]);
   const count = Number(m[2]);
   if (count < 1 || index >= count)
-    throw new SpecError("--shard", `needs 0 ≤ i < n (got ${index}/${count}); shards are numbered from 0`);
+    throw new SpecError(
+      "--shard",
+      `needs 0 ≤ i < n (got ${index}/${count}); shards are numbered from 0`,
+    );
   return { index, count };
 }
 

@@ -156,7 +156,12 @@ export function summarize(records: readonly RunRecord[]): SweepSummary {
           .map((rs) => rs.reduce((a, r) => a + r.metrics[name], 0) / rs.length),
       );
 
-    const costCurves = perSeed.map((rs) => meanCurve(rs.map((r) => cumulative(r.costSeries, len)), len));
+    const costCurves = perSeed.map((rs) =>
+      meanCurve(
+        rs.map((r) => cumulative(r.costSeries, len)),
+        len,
+      ),
+    );
     const regretCurves = perSeed.map((rs) =>
       meanCurve(
         rs.map((r) => {

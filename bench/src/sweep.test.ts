@@ -8,7 +8,7 @@ import { writeSweepOutputs } from "./outputs.js";
 import { currentMeta } from "./report.js";
 import { readResults } from "./results.js";
 import type { RunRecord } from "./run.js";
-import { summarize } from "./summary.js";
+import { sortRecords, summarize } from "./summary.js";
 import { runSweep, type SweepSource } from "./sweep.js";
 
 const plugin = fileURLToPath(new URL("./testing/feedbackPlugin.ts", import.meta.url));
@@ -69,7 +69,8 @@ describe("runSweep", () => {
     expect(mppi.samplesPerStep).toBe(32);
     // LQR is optimal for the double integrator's own quadratic cost: it beats the do-nothing baseline.
     const s = summarize(recs).outcomes;
-    const cost = (o: string) => s.find((g) => g.problem === "double-integrator" && g.optimizer === o)!.cost.mean;
+    const cost = (o: string) =>
+      s.find((g) => g.problem === "double-integrator" && g.optimizer === o)!.cost.mean;
     expect(cost("lqr")).toBeLessThan(cost("nominal"));
   });
 
@@ -93,7 +94,10 @@ describe("runSweep", () => {
     await runSweep(source, { outDir: dir, workers: 1, progress: quiet });
     const raw = structuredClone(source.raw) as { optimizers: Record<string, unknown>[] };
     raw.optimizers[0].samples = 16;
-    const again = await runSweep({ raw, dir: source.dir }, { outDir: dir, workers: 1, progress: quiet });
+    const again = await runSweep(
+      { raw, dir: source.dir },
+      { outDir: dir, workers: 1, progress: quiet },
+    );
     expect(again.executed).toBe(2 * 3); // the mppi entry on 2 problems × 3 seeds
     expect(again.records.find((r) => r.optimizer === "mppi-32")!.samplesPerStep).toBe(16);
   });
@@ -101,20 +105,29 @@ describe("runSweep", () => {
   it("merge(shards) gives the single-process summary bit for bit", async () => {
     const dirs = [fresh(), fresh(), fresh()];
     for (let i = 0; i < 3; i++)
-      await runSweep(source, { outDir: dirs[i], workers: 1, progress: quiet, shard: { index: i, count: 3 } });
+      await runSweep(source, {
+        outDir: dirs[i],
+        workers: 1,
+        progress: quiet,
+        shard: { index: i, count: 3 },
+      });
     const out = fresh();
     const merged = mergeResults([dirs[2], dirs[0], dirs[1]], out);
     const one = await single();
-    expect(merged.map(outcome)).toEqual([...one].sort((a, b) => (a.key < b.key ? -1 : 1)).map(outcome).sort((a, b) => (a.key < b.key ? -1 : 1)));
+    expect(merged.map(outcome)).toEqual(sortRecords(one).map(outcome));
     // The deterministic part of the summary is identical as text (every bit of every number).
     const a = JSON.stringify(summarize(merged).outcomes);
     const b = JSON.stringify(summarize(one).outcomes);
     expect(a).toBe(b);
     // And the summary does not depend on record order.
-    expect(JSON.stringify(summarize([...merged].reverse()))).toBe(JSON.stringify(summarize(merged)));
+    expect(JSON.stringify(summarize([...merged].reverse()))).toBe(
+      JSON.stringify(summarize(merged)),
+    );
     const files = await writeSweepOutputs(out, merged, currentMeta("test"), "merged");
     expect(existsSync(files.reportHtml)).toBe(true);
-    expect(JSON.stringify(JSON.parse(readFileSync(files.summaryJson, "utf8")).summary.outcomes)).toBe(a);
+    expect(
+      JSON.stringify(JSON.parse(readFileSync(files.summaryJson, "utf8")).summary.outcomes),
+    ).toBe(a);
   });
 
   it("worker threads give the same results as one thread", async () => {

@@ -9,10 +9,12 @@ import { mkdirSync, readFileSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { dirname, isAbsolute, join, resolve } from "node:path";
 import { pathToFileURL } from "node:url";
+import { RecedeError } from "@recede/core";
 import { builtinRegistry } from "./builtins.js";
-import { type ProgressSink, Progress } from "./progress.js";
+import { SpecError } from "./params.js";
+import { Progress, type ProgressSink } from "./progress.js";
 import type { PluginModule, ProblemDefinition, Registry } from "./registry.js";
-import { appendResult, finishedRuns, readResults } from "./results.js";
+import { appendResult, finishedRuns, readResults, repairResults } from "./results.js";
 import { executeRun, type RunRecord } from "./run.js";
 import {
   enumerateRuns,
@@ -23,7 +25,6 @@ import {
   type SweepSpec,
   shardRuns,
 } from "./spec.js";
-import { SpecError } from "./params.js";
 
 /** A sweep file as read from disk: the raw JSON and the folder plugin paths resolve against. */
 export interface SweepSource {
@@ -152,7 +153,12 @@ export function preflight(spec: SweepSpec, registry: Registry, quick: boolean): 
       try {
         check(oe.params, problem);
       } catch (e) {
-        throw new SpecError(`optimizers[${j}]`, `on problem "${pe.label}": ${(e as Error).message}`);
+        // A typed error names the parameter: point at it in the file.
+        const arg = e instanceof RecedeError && e.arg in oe.params ? `.${e.arg}` : "";
+        throw new SpecError(
+          `optimizers[${j}]${arg}`,
+          `on problem "${pe.label}": ${(e as Error).message}`,
+        );
       }
     });
   });
@@ -167,13 +173,17 @@ export async function runSweep(source: SweepSource, options: SweepOptions): Prom
   mkdirSync(options.outDir, { recursive: true });
   const resultsPath = join(options.outDir, "results.jsonl");
   const configs = new Map(all.map((c) => [c.key, c.config] as const));
+  const sink = options.progress ?? process.stderr;
+  if (repairResults(resultsPath))
+    sink.write(`resume: dropped a partly written last line of ${resultsPath}\n`);
   const done = finishedRuns(readResults(resultsPath), configs);
   const skipped = done.size;
   let todo = all.filter((c) => !done.has(c.key));
   if (options.maxRuns !== undefined) todo = todo.slice(0, options.maxRuns);
-  const sink = options.progress ?? process.stderr;
   if (done.size > 0)
-    sink.write(`resume: ${done.size} of ${all.length} runs already in ${resultsPath}; running ${todo.length}\n`);
+    sink.write(
+      `resume: ${done.size} of ${all.length} runs already in ${resultsPath}; running ${todo.length}\n`,
+    );
   const progress = new Progress(todo.length, sink);
   const quick = options.quick ?? false;
   const keepTrajectory = options.keepTrajectory ?? false;
@@ -186,7 +196,8 @@ export async function runSweep(source: SweepSource, options: SweepOptions): Prom
   };
 
   if (workers <= 1) {
-    for (const cell of todo) finish(await executeRun(spec, cell, registry, { quick, keepTrajectory }));
+    for (const cell of todo)
+      finish(await executeRun(spec, cell, registry, { quick, keepTrajectory }));
   } else {
     const { Piscina } = await import("piscina");
     const fromSource = import.meta.url.endsWith(".ts");
@@ -200,7 +211,13 @@ export async function runSweep(source: SweepSource, options: SweepOptions): Prom
     try {
       await Promise.all(
         todo.map(async (cell) => {
-          const task: WorkerTask = { raw: source.raw, dir: source.dir, cell, quick, keepTrajectory };
+          const task: WorkerTask = {
+            raw: source.raw,
+            dir: source.dir,
+            cell,
+            quick,
+            keepTrajectory,
+          };
           finish((await pool.run(task)) as RunRecord);
         }),
       );

@@ -68,16 +68,13 @@ def dense_finite_horizon(a_seq, b_seq, q_seq, r_seq, s_seq, qf, x0):
         sbar[k * n:(k + 1) * n, k * m:(k + 1) * m] = s_seq[k]
     qbar[N * n:, N * n:] = qf
     if not np.any(sbar):
-        # least squares: min || [Qbar^1/2 (Abar x0 + Bbar U)] ; [Rbar^1/2 U] ||^2
-        lq = np.linalg.cholesky(qbar + 0 * np.eye(len(qbar))) if np.all(np.linalg.eigvalsh(qbar) > 0) else None
+        # least squares: min || [Qbar^1/2 (Abar x0 + Bbar U)] ; [Rbar^1/2 U] ||^2 (Qbar, Rbar > 0)
+        lq = np.linalg.cholesky(qbar)
         lr = np.linalg.cholesky(rbar)
-        if lq is not None:
-            mat = np.vstack([lq.T @ bbar, lr.T])
-            rhs = -np.concatenate([lq.T @ abar @ x0, np.zeros(N * m)])
-            u = np.linalg.lstsq(mat, rhs, rcond=None)[0]
-            method = "numpy.linalg.lstsq on the stacked least-squares system"
-        else:
-            raise ValueError("needs Q > 0 for the least-squares form")
+        mat = np.vstack([lq.T @ bbar, lr.T])
+        rhs = -np.concatenate([lq.T @ abar @ x0, np.zeros(N * m)])
+        u = np.linalg.lstsq(mat, rhs, rcond=None)[0]
+        method = "numpy.linalg.lstsq on the stacked least-squares system"
     else:
         h = bbar.T @ qbar @ bbar + bbar.T @ sbar + sbar.T @ bbar + rbar
         g = (bbar.T @ qbar + sbar.T) @ abar @ x0
@@ -110,7 +107,7 @@ def main():
     ad, bd = zoh(ac, bc, 0.02)
     cases.append(dare_case("cart-pole-upright-zoh", ad, bd, np.diag([1, 0.1, 10, 0.1]), np.array([[0.001]])))
     # random stabilizable systems (generic random (A, B) is controllable), some open-loop unstable
-    for n, m, cross in ((3, 1, False), (5, 2, False), (6, 3, False), (4, 2, True)):
+    for n, m, cross in ((3, 1, False), (5, 2, False), (6, 3, False), (4, 2, True), (15, 4, False)):
         a = rng.normal(size=(n, n)) * (1.3 / np.sqrt(n))
         b = rng.normal(size=(n, m))
         q = random_spd(n)

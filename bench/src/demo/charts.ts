@@ -21,7 +21,10 @@ const CONFIG = {
  * Landing trajectories in the vertical plane, one small panel per optimizer, one line per seed,
  * with the pad, the roof and the touchdown points (green: success, red: failure).
  */
-export async function landingChart(records: readonly RunRecord[], optimizers: readonly string[]): Promise<Chart> {
+export async function landingChart(
+  records: readonly RunRecord[],
+  optimizers: readonly string[],
+): Promise<Chart> {
   const rows: Record<string, number | string>[] = [];
   const pad = DRONE_THRESHOLDS.missDistance;
   for (const o of optimizers) {
@@ -33,7 +36,14 @@ export async function landingChart(records: readonly RunRecord[], optimizers: re
     const traj = r.trajectory;
     const stride = Math.max(1, Math.floor(traj.length / 120));
     for (let i = 0; i < traj.length; i += stride)
-      rows.push({ layer: "path", optimizer: r.optimizer, seed: r.seed, step: i, x: traj[i][0], z: traj[i][1] });
+      rows.push({
+        layer: "path",
+        optimizer: r.optimizer,
+        seed: r.seed,
+        step: i,
+        x: traj[i][0],
+        z: traj[i][1],
+      });
     const last = traj[traj.length - 1];
     rows.push({
       layer: "end",
@@ -42,7 +52,11 @@ export async function landingChart(records: readonly RunRecord[], optimizers: re
       step: traj.length - 1,
       x: last[0],
       z: last[1],
-      result: r.success ? "landed within thresholds" : r.metrics.landed === 1 ? "landed outside thresholds" : "did not land",
+      result: r.success
+        ? "landed within thresholds"
+        : r.metrics.landed === 1
+          ? "landed outside thresholds"
+          : "did not land",
     });
   }
   const xScale = { domain: [-6, 2], nice: false };
@@ -64,8 +78,18 @@ export async function landingChart(records: readonly RunRecord[], optimizers: re
           transform: [{ filter: "datum.layer === 'path'" }],
           mark: { type: "line", strokeWidth: 1.3, opacity: 0.8 },
           encoding: {
-            x: { field: "x", type: "quantitative", title: "horizontal position p_x (m)", scale: xScale },
-            y: { field: "z", type: "quantitative", title: "height above roof p_z (m)", scale: zScale },
+            x: {
+              field: "x",
+              type: "quantitative",
+              title: "horizontal position p_x (m)",
+              scale: xScale,
+            },
+            y: {
+              field: "z",
+              type: "quantitative",
+              title: "height above roof p_z (m)",
+              scale: zScale,
+            },
             detail: { field: "seed", type: "nominal" },
             order: { field: "step", type: "quantitative" },
             color: { value: "#4c78a8" },
@@ -128,7 +152,8 @@ export async function gustChart(
     $schema: "https://vega.github.io/schema/vega-lite/v6.json",
     title: {
       text: "Gusts (unknown to the controllers' model)",
-      subtitle: "side force on the drone over time, one line per seed; the same for every optimizer",
+      subtitle:
+        "side force on the drone over time, one line per seed; the same for every optimizer",
     },
     width: 560,
     height: 180,

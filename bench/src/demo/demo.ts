@@ -13,7 +13,22 @@ import { currentMeta, fmt, summaryTable, textTable } from "../report.js";
 import { summarize } from "../summary.js";
 import { runSweep } from "../sweep.js";
 import { gustChart, landingChart } from "./charts.js";
-import { DRONE_PARAMETERS, DRONE_THRESHOLDS, DRONE_WEIGHTS, drawWind, droneParams } from "./drone.js";
+import {
+  DRONE_PARAMETERS,
+  DRONE_THRESHOLDS,
+  DRONE_WEIGHTS,
+  drawWind,
+  droneParams,
+} from "./drone.js";
+
+/** Column titles of the scenario metrics. */
+const METRIC_LABELS: Readonly<Record<string, string>> = {
+  landed: "share landed",
+  landingTime: "landing time (s)",
+  missDistance: "miss distance (m)",
+  touchdownSpeed: "touchdown speed (m/s)",
+  touchdownTilt: "touchdown tilt (°)",
+};
 
 /** Options of {@link runDemo}. */
 export interface DemoOptions {
@@ -112,7 +127,8 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
       },
       steps * dt,
     );
-    for (let t = 0; t <= steps; t += 2) gusts.push({ seed, time: t * dt, force: wind.force(t * dt) });
+    for (let t = 0; t <= steps; t += 2)
+      gusts.push({ seed, time: t * dt, force: wind.force(t * dt) });
   }
   const summary = summarize(outcome.records);
   const th = DRONE_THRESHOLDS;
@@ -124,6 +140,7 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
     "Rooftop parcel drone in gusts",
     {
       markdownName: "report.md",
+      metricLabels: METRIC_LABELS,
       chartDir: "",
       charts: [await landingChart(outcome.records, optimizers), await gustChart(gusts)],
       intro: [
@@ -150,7 +167,10 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
               "Landing success",
               `touchdown (p_z reaches 0) with miss distance |p_x| ≤ ${th.missDistance} m, touchdown speed ‖v‖ ≤ ${th.touchdownSpeed} m/s and tilt |θ| ≤ ${deg(th.tilt)}.`,
             ],
-            ["Constraint violation", `a control step with tilt |θ| > ${deg(th.tiltLimit)} (the parcel must not swing hard).`],
+            [
+              "Constraint violation",
+              `a control step with tilt |θ| > ${deg(th.tiltLimit)} (the parcel must not swing hard).`,
+            ],
             [
               "Cost",
               `per step ${DRONE_WEIGHTS.position}·p_x² + ${DRONE_WEIGHTS.height}·p_z² + ${DRONE_WEIGHTS.tilt}·θ² + ${DRONE_WEIGHTS.velocity}·‖v‖² + ${DRONE_WEIGHTS.rate}·ω² + ${DRONE_WEIGHTS.thrust}·‖u − u_hover‖² + ${DRONE_WEIGHTS.envelope}·(descent faster than 0.3 + 0.5·p_z m/s)²; terminal ${DRONE_WEIGHTS.terminal}× the state part.`,
@@ -165,8 +185,10 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
     },
   );
   if (options.print ?? true) {
-    process.stdout.write(`\n${textTable(summaryTable(summary, { missDistance: "miss (m)", touchdownSpeed: "touchdown speed (m/s)", landingTime: "landing time (s)", landed: "landed" }))}\n\n`);
-    process.stdout.write(`wrote ${files.reportHtml}, ${files.summaryMd}, ${files.charts.length} charts, ${outcome.resultsPath}\n`);
+    process.stdout.write(`\n${textTable(summaryTable(summary, METRIC_LABELS))}\n\n`);
+    process.stdout.write(
+      `wrote ${files.reportHtml}, ${files.summaryMd}, ${files.charts.length} charts, ${outcome.resultsPath}\n`,
+    );
   }
   return {
     reportHtml: files.reportHtml,

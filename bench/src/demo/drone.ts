@@ -103,7 +103,14 @@ class DroneRk4 {
   private readonly tmp = new Float64Array(N);
   constructor(private readonly dt: number) {}
 
-  step(x: Float64Array, xo: number, u: Float64Array, uo: number, count: number, side: number): void {
+  step(
+    x: Float64Array,
+    xo: number,
+    u: Float64Array,
+    uo: number,
+    count: number,
+    side: number,
+  ): void {
     const { k, tmp, dt } = this;
     for (let s = 0; s < count; s++) {
       const b = xo + s * N;
@@ -208,7 +215,8 @@ export const droneCost: CostModel = {
     }
   },
   terminal(x, xo, count, out, oo): void {
-    for (let k = 0; k < count; k++) out[oo + k] += DRONE_WEIGHTS.terminal * stateCost(x, xo + k * N);
+    for (let k = 0; k < count; k++)
+      out[oo + k] += DRONE_WEIGHTS.terminal * stateCost(x, xo + k * N);
   },
 };
 
@@ -306,7 +314,8 @@ function gustForce(steady: number, gusts: readonly Gust[], time: number): number
   let f = steady;
   for (const g of gusts) {
     const s = time - g.start;
-    if (s >= 0 && s <= g.duration) f += 0.5 * g.amplitude * (1 - Math.cos((2 * Math.PI * s) / g.duration));
+    if (s >= 0 && s <= g.duration)
+      f += 0.5 * g.amplitude * (1 - Math.cos((2 * Math.PI * s) / g.duration));
   }
   return f;
 }
@@ -320,7 +329,12 @@ export const droneParams: ParamSchemaMap = {
   gustMax: { type: "number", min: 0, default: 3.5, description: "largest gust amplitude, N" },
   gusts: { type: "integer", min: 0, max: 10, default: 3, description: "gusts per episode" },
   startOffset: { type: "number", default: -4, description: "mean start p_x (pad at 0), m" },
-  startHeight: { type: "number", above: 0, default: 8, description: "mean start height above the roof, m" },
+  startHeight: {
+    type: "number",
+    above: 0,
+    default: 8,
+    description: "mean start height above the roof, m",
+  },
 };
 
 /** The wind history of one episode, drawn from its stream (also used by charts). */
@@ -334,7 +348,8 @@ export function drawWind(
   for (let i = 0; i < settings.count; i++) {
     const start = 0.5 + rng.uniform() * Math.max(0, horizonSeconds * 0.7);
     const duration = 0.8 + 1.2 * rng.uniform();
-    const mag = settings.amplitude[0] + (settings.amplitude[1] - settings.amplitude[0]) * rng.uniform();
+    const mag =
+      settings.amplitude[0] + (settings.amplitude[1] - settings.amplitude[0]) * rng.uniform();
     gusts.push({ start, duration, amplitude: rng.uniform() < 0.5 ? -mag : mag });
   }
   return { steady, gusts, force: (time: number) => gustForce(steady, gusts, time) };
@@ -419,7 +434,9 @@ export function parcelDrone(params: ParamValues = {}): BenchProblem {
           },
         };
       const ok =
-        touchdown.miss <= th.missDistance && touchdown.speed <= th.touchdownSpeed && touchdown.tilt <= th.tilt;
+        touchdown.miss <= th.missDistance &&
+        touchdown.speed <= th.touchdownSpeed &&
+        touchdown.tilt <= th.tilt;
       return {
         success: ok,
         metrics: {

@@ -21,7 +21,12 @@ import {
   rolloutEnvironment,
   type StochasticPolicy,
 } from "@recede/policy-gradient";
-import type { BenchController, BenchProblem, FactoryContext, OptimizerDefinition } from "../registry.js";
+import type {
+  BenchController,
+  BenchProblem,
+  FactoryContext,
+  OptimizerDefinition,
+} from "../registry.js";
 
 /** The `distilled` kind. */
 export const distilledDefinition: OptimizerDefinition = {
@@ -29,23 +34,42 @@ export const distilledDefinition: OptimizerDefinition = {
   description:
     "A policy distilled from another optimizer of the sweep (the expert) by DAgger (Ross, Gordon & Bagnell 2011), trained on the model per seed.",
   params: {
-    expert: { type: "optimizer", description: "label of the expert optimizer entry (e.g. an MPPI entry)" },
+    expert: {
+      type: "optimizer",
+      description: "label of the expert optimizer entry (e.g. an MPPI entry)",
+    },
     policy: {
       type: "string",
       values: ["linear", "mlp"],
       default: "linear",
-      description: "policy class: affine feedback u = Kx + b (least-squares fit) or a tanh MLP (Adam fit)",
+      description:
+        "policy class: affine feedback u = Kx + b (least-squares fit) or a tanh MLP (Adam fit)",
     },
-    hidden: { type: "integer", min: 1, default: 32, description: "width of each of the MLP's two hidden layers" },
+    hidden: {
+      type: "integer",
+      min: 1,
+      default: 32,
+      description: "width of each of the MLP's two hidden layers",
+    },
     rounds: { type: "integer", min: 1, default: 4, description: "DAgger rounds" },
-    episodesPerRound: { type: "integer", min: 1, default: 2, description: "expert-labelled episodes per round" },
+    episodesPerRound: {
+      type: "integer",
+      min: 1,
+      default: 2,
+      description: "expert-labelled episodes per round",
+    },
     validationEpisodes: {
       type: "integer",
       min: 0,
       default: 2,
       description: "episodes scoring each round's policy (the best is kept; 0 keeps the last)",
     },
-    fitIterations: { type: "integer", min: 1, default: 300, description: "Adam steps per refit (MLP)" },
+    fitIterations: {
+      type: "integer",
+      min: 1,
+      default: 300,
+      description: "Adam steps per refit (MLP)",
+    },
     trainingNoise: {
       type: "number",
       min: 0,
@@ -54,7 +78,8 @@ export const distilledDefinition: OptimizerDefinition = {
     },
   },
   check(params) {
-    if (params.expert === undefined) throw new Error('distilled: "expert" (an optimizer label) is required');
+    if (params.expert === undefined)
+      throw new Error('distilled: "expert" (an optimizer label) is required');
   },
   async create(params, problem: BenchProblem, ctx: FactoryContext): Promise<BenchController> {
     const label = params.expert as string | undefined;

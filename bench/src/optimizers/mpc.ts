@@ -18,18 +18,23 @@ import {
   type Controller,
   cem,
   createController,
-  lqr,
   eliteFraction,
   expectedCost,
   exponentialUtility,
   gaussianPlan,
+  lqr,
   mppi,
   type SampleLoss,
   shiftPlan,
 } from "@recede/mpc";
 import { wrapAngle } from "@recede/problems";
 import type { ParamSchemaMap, ParamValues } from "../params.js";
-import type { BenchController, BenchProblem, FactoryContext, OptimizerDefinition } from "../registry.js";
+import type {
+  BenchController,
+  BenchProblem,
+  FactoryContext,
+  OptimizerDefinition,
+} from "../registry.js";
 
 /** Parameters shared by the sampling kinds (sweep-file names). */
 const samplingParams: ParamSchemaMap = {
@@ -38,9 +43,14 @@ const samplingParams: ParamSchemaMap = {
   noise: {
     type: "numbers",
     above: 0,
-    description: "initial sampling standard deviation per control component (length m; default 1 each)",
+    description:
+      "initial sampling standard deviation per control component (length m; default 1 each)",
   },
-  iterations: { type: "integer", min: 1, description: "mirror steps per control step (default: the preset's)" },
+  iterations: {
+    type: "integer",
+    min: 1,
+    description: "mirror steps per control step (default: the preset's)",
+  },
   correlation: {
     type: "number",
     min: 0,
@@ -66,12 +76,20 @@ function noiseOf(params: ParamValues, problem: BenchProblem, kind: string): Floa
   const v = params.noise as readonly number[] | undefined;
   if (v === undefined) return new Float64Array(m).fill(1);
   if (v.length !== m)
-    throw new RecedeError("dimension", kind, "noise", `${m} entries (one per control of ${problem.id})`, v.length);
+    throw new RecedeError(
+      "dimension",
+      kind,
+      "noise",
+      `of length ${m} (one entry per control of ${problem.id}); given length`,
+      v.length,
+    );
   return Float64Array.from(v);
 }
 
 function meanOf(problem: BenchProblem): Float64Array {
-  return problem.equilibrium ? Float64Array.from(problem.equilibrium.control) : new Float64Array(problem.controlSize);
+  return problem.equilibrium
+    ? Float64Array.from(problem.equilibrium.control)
+    : new Float64Array(problem.controlSize);
 }
 
 /** Wrap an `@recede/mpc` controller: samples per step = K × iterations actually run. */
@@ -94,7 +112,8 @@ function checkNoise(params: ParamValues, problem: BenchProblem, kind: string): v
 /** The `mppi` kind. */
 export const mppiDefinition: OptimizerDefinition = {
   kind: "mppi",
-  description: "MPPI (Williams et al. 2017): exponential-utility weights, KL step with γ = 1, fixed noise.",
+  description:
+    "MPPI (Williams et al. 2017): exponential-utility weights, KL step with γ = 1, fixed noise.",
   params: {
     ...samplingParams,
     temperature: { type: "number", above: 0, default: 1, description: "temperature λ" },
@@ -124,11 +143,23 @@ export const mppiDefinition: OptimizerDefinition = {
 /** The `cem` kind. */
 export const cemDefinition: OptimizerDefinition = {
   kind: "cem",
-  description: "Cross-entropy method (Rubinstein 1999): elite fraction, mean and variance refit, γ = 1.",
+  description:
+    "Cross-entropy method (Rubinstein 1999): elite fraction, mean and variance refit, γ = 1.",
   params: {
     ...samplingParams,
-    eliteFraction: { type: "number", above: 0, max: 1, default: 0.1, description: "elite fraction ρ" },
-    minStd: { type: "number", min: 0, default: 0.01, description: "floor on the refitted standard deviation" },
+    eliteFraction: {
+      type: "number",
+      above: 0,
+      max: 1,
+      default: 0.1,
+      description: "elite fraction ρ",
+    },
+    minStd: {
+      type: "number",
+      min: 0,
+      default: 0.01,
+      description: "floor on the refitted standard deviation",
+    },
     spreadFill: {
       type: "string",
       values: ["repeat", "initial", "reset"],
@@ -173,15 +204,37 @@ export const variantDefinition: OptimizerDefinition = {
       default: "exponential",
       description: "per-sample loss: exponential utility (λ), elite fraction (ρ), or expected cost",
     },
-    temperature: { type: "number", above: 0, default: 1, description: "temperature λ (loss exponential)" },
-    eliteFraction: { type: "number", above: 0, max: 1, default: 0.1, description: "elite fraction ρ (loss elite)" },
-    stepSize: { type: "number", above: 0, max: 1, default: 1, description: "mirror step size γ ∈ (0, 1]" },
+    temperature: {
+      type: "number",
+      above: 0,
+      default: 1,
+      description: "temperature λ (loss exponential)",
+    },
+    eliteFraction: {
+      type: "number",
+      above: 0,
+      max: 1,
+      default: 0.1,
+      description: "elite fraction ρ (loss elite)",
+    },
+    stepSize: {
+      type: "number",
+      above: 0,
+      max: 1,
+      default: 1,
+      description: "mirror step size γ ∈ (0, 1]",
+    },
     adaptCovariance: {
       type: "boolean",
       default: false,
       description: "update the (diagonal) covariance by the mirror step too",
     },
-    minStd: { type: "number", min: 0, default: 0.01, description: "floor on an adapted standard deviation" },
+    minStd: {
+      type: "number",
+      min: 0,
+      default: 0.01,
+      description: "floor on an adapted standard deviation",
+    },
     spreadFill: {
       type: "string",
       values: ["repeat", "initial", "reset"],
@@ -239,11 +292,24 @@ export const lqrDefinition: OptimizerDefinition = {
   },
   check(_params, problem) {
     if (!problem.linearQuadratic)
-      throw new RecedeError("domain", "lqr", "problem", "a problem with linear-quadratic data", problem.id);
+      throw new RecedeError(
+        "domain",
+        "lqr",
+        "problem",
+        "a problem with linear-quadratic data",
+        problem.id,
+      );
   },
   create(params, problem) {
     const lq = problem.linearQuadratic;
-    if (!lq) throw new RecedeError("domain", "lqr", "problem", "a problem with linear-quadratic data", problem.id);
+    if (!lq)
+      throw new RecedeError(
+        "domain",
+        "lqr",
+        "problem",
+        "a problem with linear-quadratic data",
+        problem.id,
+      );
     const n = lq.stateSize;
     const m = lq.controlSize;
     const mat = (data: Float64Array, rows: number, cols: number) => ({ data, rows, cols });

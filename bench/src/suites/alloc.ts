@@ -26,8 +26,8 @@
  * @module
  */
 import { spawnSync } from "node:child_process";
-import { fileURLToPath, pathToFileURL } from "node:url";
 import { PerformanceObserver } from "node:perf_hooks";
+import { fileURLToPath, pathToFileURL } from "node:url";
 import { createRollout, exponentialUtility, gaussianPlan, mppi, shiftPlan } from "@recede/mpc";
 import { bicycle, cartPole } from "@recede/problems";
 import type { Suite, SuiteContext, SuiteOutput } from "../suite.js";
@@ -215,7 +215,14 @@ function spawnParts(model: ModelName, calls: number): Record<string, number> {
 
 function spawnChild(model: ModelName, steps: number, control: boolean): ChildResult {
   const self = fileURLToPath(import.meta.url);
-  const args = [...CHILD_FLAGS, self, "--alloc-child", model, String(steps), control ? "control" : "library"];
+  const args = [
+    ...CHILD_FLAGS,
+    self,
+    "--alloc-child",
+    model,
+    String(steps),
+    control ? "control" : "library",
+  ];
   const r = spawnSync(process.execPath, args, { encoding: "utf8" });
   if (r.error || r.status !== 0) {
     throw new Error(`alloc child failed (${model}): ${r.error?.message ?? r.stderr.trim()}`);
@@ -229,7 +236,9 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
   const lines: string[] = [];
   for (const model of ["bicycle", "cart-pole"] as const) {
     for (const control of [false, true]) {
-      ctx.log(`${model}${control ? " (positive control: +1 Float64Array(8) per step)" : ""}: ${steps} steps…`);
+      ctx.log(
+        `${model}${control ? " (positive control: +1 Float64Array(8) per step)" : ""}: ${steps} steps…`,
+      );
       const r = spawnChild(model, steps, control);
       results.push(r);
       lines.push(
@@ -273,7 +282,10 @@ export const suite: Suite = {
 };
 
 // Child-process entry: node --expose-gc alloc.js --alloc-child <model> <steps> <library|control|parts>
-if (process.argv[2] === "--alloc-child" && import.meta.url === pathToFileURL(process.argv[1]).href) {
+if (
+  process.argv[2] === "--alloc-child" &&
+  import.meta.url === pathToFileURL(process.argv[1]).href
+) {
   const [model, steps, kind] = process.argv.slice(3);
   const job =
     kind === "parts"

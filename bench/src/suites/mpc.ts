@@ -56,7 +56,13 @@ function build(p: Problem, c: Case): Controller {
     : cem({ ...common, std: noiseOf(p), iterations: 1 });
 }
 
-function closedLoopSteps(ctrl: Controller, p: Problem, x: Float64Array, steps: number, t0: number): void {
+function closedLoopSteps(
+  ctrl: Controller,
+  p: Problem,
+  x: Float64Array,
+  steps: number,
+  t0: number,
+): void {
   for (let s = 0; s < steps; s++) {
     const { control } = ctrl.act(x);
     p.dynamics.step(x, 0, control, 0, 1, t0 + s);
@@ -85,7 +91,12 @@ interface AllocResult {
   readonly longRunSteps: number;
 }
 
-async function measureAllocation(ctrl: Controller, p: Problem, allocSteps: number, gcSteps: number): Promise<AllocResult> {
+async function measureAllocation(
+  ctrl: Controller,
+  p: Problem,
+  allocSteps: number,
+  gcSteps: number,
+): Promise<AllocResult> {
   const gc = (globalThis as { gc?: () => void }).gc;
   const x = p.initialState();
   closedLoopSteps(ctrl, p, x, 50, 0); // warm-up (JIT, lazily grown scratch)
@@ -128,7 +139,8 @@ export const suite: Suite = {
     const cases: Case[] = [];
     for (const problem of ["cart-pole", "bicycle"]) {
       for (const samples of [256, 2000]) {
-        for (const optimizer of ["mppi", "cem"] as const) cases.push({ problem, optimizer, samples });
+        for (const optimizer of ["mppi", "cem"] as const)
+          cases.push({ problem, optimizer, samples });
       }
     }
     const rows: Record<string, unknown>[] = [];
@@ -149,7 +161,9 @@ export const suite: Suite = {
       }
       const stepsPerSecond = median(rates);
       const sampleSteps = stepsPerSecond * c.samples * HORIZON;
-      ctx.log(`mpc: ${c.optimizer} ${c.problem} K=${c.samples}: ${stepsPerSecond.toFixed(1)} steps/s`);
+      ctx.log(
+        `mpc: ${c.optimizer} ${c.problem} K=${c.samples}: ${stepsPerSecond.toFixed(1)} steps/s`,
+      );
       const alloc = await measureAllocation(
         build(p, c),
         p,

@@ -234,7 +234,7 @@ function feed(tracker: RegretTracker, rounds: number, d: number, seed: number): 
 function perRound(ctx: SuiteContext, rounds: number): Record<string, number> {
   const d = 40;
   const out: Record<string, number> = {};
-  for (const h of ["summary", "window", "full"] as const) {
+  for (const h of ["summary", "window", "thinned", "full"] as const) {
     const tr = syntheticTracker(h, d);
     feed(tr, Math.min(rounds, 20_000), d, 1); // warm-up
     tr.reset();
@@ -296,7 +296,7 @@ export const suite: Suite = {
       lines: [
         `MPPI step with/without tracker (summary): CPU ×${summary.cpuTimeRatio.toFixed(4)}, fastest ×${summary.minStepRatio.toFixed(4)}, wall pairs ×${summary.medianPairRatio.toFixed(4)}, record() = ${(100 * summary.attributedOverhead).toFixed(3)}% of a step — target ≤ 1.05: ${summary.targetMet ? "met" : "NOT met"}`,
         `MPPI step with/without tracker (full): CPU ×${full.cpuTimeRatio.toFixed(4)}, fastest ×${full.minStepRatio.toFixed(4)}, wall pairs ×${full.medianPairRatio.toFixed(4)}, record() = ${(100 * full.attributedOverhead).toFixed(3)}% of a step`,
-        `record() ns/round at d=40: summary ${record.summary.toFixed(0)}, window ${record.window.toFixed(0)}, full ${record.full.toFixed(0)}`,
+        `record() ns/round at d=40: summary ${record.summary.toFixed(0)}, window ${record.window.toFixed(0)}, thinned ${record.thinned.toFixed(0)}, full ${record.full.toFixed(0)}`,
         `heap growth over ${alloc.rounds} summary rounds: ${alloc.heapGrowthBytes === null ? "n/a (no GC hook)" : `${alloc.heapGrowthBytes} B (${(alloc.heapGrowthBytes / alloc.rounds).toFixed(3)} B/round)`}`,
       ],
     };

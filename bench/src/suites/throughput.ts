@@ -158,11 +158,7 @@ function timed(steps: number, body: () => void): { stepsPerS: number; stepsPerCp
 }
 
 /** The library path: the mppi preset on the problem, closed loop on the problem's own model. */
-function libraryRun(
-  mc: ModelCase,
-  warmup: number,
-  steps: number,
-): Timed {
+function libraryRun(mc: ModelCase, warmup: number, steps: number): Timed {
   const p = mc.problem;
   const ctrl = mppi({
     dynamics: p.dynamics,
@@ -190,11 +186,7 @@ function libraryRun(
 }
 
 /** The JS ceiling: the hand-written twin of mppi.c. */
-function ceilingRun(
-  mc: ModelCase,
-  warmup: number,
-  steps: number,
-): Timed {
+function ceilingRun(mc: ModelCase, warmup: number, steps: number): Timed {
   const ref = referenceStep(config(mc, warmup, steps));
   const x = mc.problem.initialState();
   const u = new Float64Array(mc.problem.controlSize);
@@ -423,7 +415,10 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
         noise: mc.noise,
         slice_size: SLICE,
         seed: SEED,
-        bounds: { lower: Array.from(mc.problem.bounds.lower), upper: Array.from(mc.problem.bounds.upper) },
+        bounds: {
+          lower: Array.from(mc.problem.bounds.lower),
+          upper: Array.from(mc.problem.bounds.upper),
+        },
       },
     };
     models.push(entry);

@@ -5,8 +5,9 @@
  *
  * @module
  */
-import type { BenchController, BenchProblem, Registry } from "../registry.js";
+
 import { SpecError } from "../params.js";
+import type { BenchController, BenchProblem, Registry } from "../registry.js";
 
 /** Register `linear-feedback` in `registry`. */
 export function register(registry: Registry): void {
@@ -21,7 +22,10 @@ export function register(registry: Registry): void {
       const m = problem.controlSize;
       const g = (params.gains as readonly number[] | undefined) ?? new Array<number>(m * n).fill(0);
       if (g.length !== m * n)
-        throw new SpecError("gains", `must have m·n = ${m * n} entries for ${problem.id} (got ${g.length})`);
+        throw new SpecError(
+          "gains",
+          `must have m·n = ${m * n} entries for ${problem.id} (got ${g.length})`,
+        );
       const xs = problem.equilibrium?.state ?? new Float64Array(n);
       const us = problem.equilibrium?.control ?? new Float64Array(m);
       const u = new Float64Array(m);

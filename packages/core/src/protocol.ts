@@ -79,16 +79,22 @@ export interface OnlineLearner<TFeedback = Feedback, TSnapshot = unknown> extend
 
 /**
  * A small observer list with no allocation per emit. Learners own one and call `emit`.
+ *
+ * The list is copy-on-write: adding or removing a listener (even from inside a callback) replaces
+ * the array, so an emit in progress still calls exactly the listeners registered when it began.
  */
 export class ObserverList {
-  private listeners: Array<(record: RoundRecord) => void> = [];
+  private listeners: ReadonlyArray<(record: RoundRecord) => void> = [];
 
-  /** Register a listener; returns its remover. */
+  /** Register a listener; returns its remover (calling it twice is harmless). */
   add(listener: (record: RoundRecord) => void): () => void {
-    this.listeners.push(listener);
+    this.listeners = [...this.listeners, listener];
+    let removed = false;
     return () => {
+      if (removed) return;
+      removed = true;
       const i = this.listeners.indexOf(listener);
-      if (i >= 0) this.listeners.splice(i, 1);
+      if (i >= 0) this.listeners = [...this.listeners.slice(0, i), ...this.listeners.slice(i + 1)];
     };
   }
 

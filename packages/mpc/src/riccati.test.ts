@@ -159,6 +159,22 @@ describe("finiteHorizonLqr", () => {
     expect(sol.cost(x0)).toBeCloseTo(j, 12);
   });
 
+  it("accepts per-stage sequences (including S) and RowMajorMatrix inputs equivalently", () => {
+    const s = [[0.05], [0.01]];
+    const constant = finiteHorizonLqr({ ...di, s, qf: di.q, horizon: 3 });
+    const seq = finiteHorizonLqr({
+      a: [di.a, di.a, di.a],
+      b: [di.b, { data: new Float64Array([0.005, 0.1]), rows: 2, cols: 1 }, di.b],
+      q: [di.q, di.q, di.q],
+      r: [di.r, di.r, di.r],
+      s: [s, s, s],
+      qf: di.q,
+      horizon: 3,
+    });
+    expect(Array.from(seq.gains)).toEqual(Array.from(constant.gains));
+    expect(Array.from(seq.values)).toEqual(Array.from(constant.values));
+  });
+
   it("rejects bad input with typed errors naming the argument", () => {
     expect(() => finiteHorizonLqr({ ...di, qf: di.q, horizon: 0 })).toThrow(
       /finiteHorizonLqr: horizon must be an integer >= 1/,

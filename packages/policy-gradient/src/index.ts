@@ -80,7 +80,14 @@ export {
   type MlpGaussianPolicyOptions,
   mlpGaussianPolicy,
 } from "./policies/mlpGaussian.js";
-export type { Actor, ParameterBlock, PolicyKind, StochasticPolicy } from "./policies/policy.js";
+export {
+  type Actor,
+  type ActorOutput,
+  controlOf,
+  type ParameterBlock,
+  type PolicyKind,
+  type StochasticPolicy,
+} from "./policies/policy.js";
 export { SoftmaxPolicy, type SoftmaxPolicyOptions, softmaxPolicy } from "./policies/softmax.js";
 export {
   type ConjugateGradientReport,
@@ -102,3 +109,9 @@ export {
   policyOptimizer,
   type TrustRegionOptions,
 } from "./updates/policyOptimizer.js";
+export {
+  type TrainingResult,
+  type TrainingRound,
+  type TrainPolicyOptions,
+  trainPolicy,
+} from "./updates/trainPolicy.js";

@@ -168,6 +168,11 @@ export interface BicycleProblem extends Problem {
  * `holdSteps` states, and never inside an obstacle.
  *
  * State (x, y, ψ, v), control (a, δ).
+ *
+ * @example
+ * ```ts
+ * const p = bicycle({ goal: [6, 2], obstacles: [{ x: 3, y: 1, radius: 0.6 }] });
+ * ```
  */
 export function bicycle(options: BicycleOptions = {}): BicycleProblem {
   const fn = "bicycle";

@@ -95,3 +95,28 @@ describe("cartPole physics", () => {
     expect(p.parameters.poleFriction).toBe(0.000002);
   });
 });
+
+describe("cartPole success test", () => {
+  it("needs the pole upright, slow and on the track for the last holdSteps states", () => {
+    const p = cartPole({ holdSteps: 2 });
+    const up = [0.5, 0, 0.1, -0.5];
+    expect(p.success(Float64Array.from([0, 0, Math.PI, 0, ...up, ...up]))).toBe(true);
+    const off = [2.5, 0, 0.1, -0.5]; // upright but off the 2.4 m track
+    const rep = p.assess(Float64Array.from([...up, ...off]));
+    expect(rep.success).toBe(false);
+    expect(rep.heldSteps).toBe(0);
+    expect(rep.reason).toMatch(/\|x\| = 2\.500 m > 2\.4/);
+    expect(rep.criterion).toMatch(/last 2 states/);
+    expect(p.assess(Float64Array.from([...off, ...up])).heldSteps).toBe(1);
+    expect(() => p.assess(new Float64Array(3))).toThrow(/cartPole.assess: count/);
+  });
+
+  it("charges the track ends in the cost", () => {
+    const p = cartPole({ q: [0, 0, 0, 0], r: 1, trackWeight: 10, trackViolationCost: 5 });
+    const out = new Float64Array(2);
+    const x = Float64Array.from([2.0, 0, 0, 0, -2.9, 0, 0, 0]);
+    p.cost.running(x, 0, new Float64Array(2), 0, 2, 0, out, 0);
+    expect(out[0]).toBe(0);
+    expect(out[1]).toBeCloseTo(10 * 0.25 + 5, 12);
+  });
+});

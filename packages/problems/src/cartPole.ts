@@ -168,6 +168,13 @@ export interface CartPoleProblem extends Problem {
  * `holdSteps` states.
  *
  * State (x, ẋ, θ, θ̇), control (F).
+ *
+ * @example
+ * ```ts
+ * const p = cartPole({ cartFriction: 0.0005, poleFriction: 0.000002 }); // the 1983 benchmark
+ * const acc = new Float64Array(2);
+ * p.accelerations(p.initialState(), 0, 10, acc, 0); // (ẍ, θ̈) under F = 10 N
+ * ```
  */
 export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
   const fn = "cartPole";
@@ -216,12 +223,13 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
   /** ẍ given θ̈. */
   const cartAcc = (s: number, c: number, w: number, F: number, thdd: number): number =>
     (F + mpl * (w * w * s - thdd * c)) * invM;
-  const acc = new Float64Array(2);
+  const acc = new Float64Array(3);
   /**
    * acc[0] ← ẍ, acc[1] ← θ̈ with friction, for σ = sgn(N_c ẋ) given (Florian 2007, with the
-   * denominator (cos θ − μ_c σ sin θ) of MATH.md §7.1); returns the normal force N_c.
+   * denominator (cos θ − μ_c σ sin θ) of MATH.md §7.1), and acc[2] ← the normal force N_c.
+   * (Results go through `acc`, not return values, so a non-inlined call allocates no number.)
    */
-  const accelSigned = (th: number, w: number, F: number, sig: number): number => {
+  const accelSigned = (th: number, w: number, F: number, sig: number): void => {
     const s = Math.sin(th);
     const c = Math.cos(th);
     const num =
@@ -232,13 +240,14 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
     const nc = M * g - mpl * (thdd * s + w * w * c);
     acc[0] = (F + mpl * (w * w * s - thdd * c) - muC * nc * sig) * invM;
     acc[1] = thdd;
-    return nc;
+    acc[2] = nc;
   };
   /** σ = sgn(N_c ẋ): assume N_c > 0, flip if the resulting N_c is negative (Florian 2007). */
   const frictionSign = (th: number, w: number, v: number, F: number): number => {
     const sv = v > 0 ? 1 : v < 0 ? -1 : 0;
     if (sv === 0 || muC === 0) return sv;
-    return accelSigned(th, w, F, sv) >= 0 ? sv : -sv;
+    accelSigned(th, w, F, sv);
+    return acc[2] >= 0 ? sv : -sv;
   };
   /** acc[0] ← ẍ, acc[1] ← θ̈ at (θ, θ̇, ẋ) under force F. */
   const accel = (th: number, w: number, v: number, F: number): void => {

@@ -79,6 +79,12 @@ export interface DoubleIntegratorOptions {
  * K. J. Åström, B. Wittenmark, "Computer-Controlled Systems", 3rd ed., 1997, §2.3 (ZOH sampling).
  *
  * Success: ‖x‖₂ ≤ `tolerance` for the last `holdSteps` states.
+ *
+ * @example
+ * ```ts
+ * const p = doubleIntegrator({ axes: 2, dt: 0.05 });
+ * const { a, b, q, r } = p.linearQuadratic!; // exact (A, B, Q, R) for an LQR solver
+ * ```
  */
 export function doubleIntegrator(options: DoubleIntegratorOptions = {}): Problem {
   const fn = "doubleIntegrator";

@@ -60,6 +60,7 @@ export {
 } from "./problem.js";
 export {
   getProblem,
+  type ProblemByName,
   type ProblemFactory,
   type ProblemName,
   type ProblemOptionsByName,

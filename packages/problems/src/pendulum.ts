@@ -120,6 +120,14 @@ export interface PendulumProblem extends Problem {
  *
  * State (θ, θ̇), control (u). Symbols ↔ options: m ↔ `mass`, l ↔ `length`, b ↔ `damping`,
  * g ↔ `gravity`.
+ *
+ * @example
+ * ```ts
+ * const p = pendulum({ torqueLimit: 3 });
+ * const x = p.initialState(); // hanging at rest
+ * p.dynamics.step(x, 0, new Float64Array([3]), 0, 1, 0);
+ * p.energy(x); // > −m g l: the push added energy
+ * ```
  */
 export function pendulum(options: PendulumOptions = {}): PendulumProblem {
   const fn = "pendulum";

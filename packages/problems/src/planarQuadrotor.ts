@@ -162,6 +162,13 @@ export interface PlanarQuadrotorProblem extends Problem {
  * `angleTolerance` for the last `holdSteps` states.
  *
  * State (x, y, θ, ẋ, ẏ, θ̇), control (u₁, u₂).
+ *
+ * @example
+ * ```ts
+ * const model = planarQuadrotor();
+ * // the plant: same vehicle, plus a 2 N side gust after t = 1 s that the model does not know
+ * const plant = planarQuadrotor({ disturbance: (t, _x, _o, out) => { out[0] = t > 1 ? 2 : 0; } });
+ * ```
  */
 export function planarQuadrotor(options: PlanarQuadrotorOptions = {}): PlanarQuadrotorProblem {
   const fn = "planarQuadrotor";

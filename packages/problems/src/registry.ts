@@ -4,11 +4,15 @@
  * @module
  */
 import { RecedeError } from "@recede/core";
-import { type BicycleOptions, bicycle } from "./bicycle.js";
-import { type CartPoleOptions, cartPole } from "./cartPole.js";
+import { type BicycleOptions, type BicycleProblem, bicycle } from "./bicycle.js";
+import { type CartPoleOptions, type CartPoleProblem, cartPole } from "./cartPole.js";
 import { type DoubleIntegratorOptions, doubleIntegrator } from "./doubleIntegrator.js";
-import { type PendulumOptions, pendulum } from "./pendulum.js";
-import { type PlanarQuadrotorOptions, planarQuadrotor } from "./planarQuadrotor.js";
+import { type PendulumOptions, type PendulumProblem, pendulum } from "./pendulum.js";
+import {
+  type PlanarQuadrotorOptions,
+  type PlanarQuadrotorProblem,
+  planarQuadrotor,
+} from "./planarQuadrotor.js";
 import type { Problem } from "./problem.js";
 
 /** Options accepted by each registered problem. */
@@ -20,21 +24,31 @@ export interface ProblemOptionsByName {
   bicycle: BicycleOptions;
 }
 
+/** The problem type each registered factory returns. */
+export interface ProblemByName {
+  "double-integrator": Problem;
+  pendulum: PendulumProblem;
+  "cart-pole": CartPoleProblem;
+  "planar-quadrotor": PlanarQuadrotorProblem;
+  bicycle: BicycleProblem;
+}
+
 /** Name of a registered problem. */
 export type ProblemName = keyof ProblemOptionsByName;
 
-/** A problem factory: options in, fresh {@link Problem} out. */
-export type ProblemFactory<O> = (options?: O) => Problem;
+/** A problem factory: options in, fresh problem out. */
+export type ProblemFactory<O, P extends Problem = Problem> = (options?: O) => P;
 
 /** Every registered problem factory, by name. */
-export const problems: { readonly [K in ProblemName]: ProblemFactory<ProblemOptionsByName[K]> } =
-  Object.freeze({
-    "double-integrator": doubleIntegrator,
-    pendulum,
-    "cart-pole": cartPole,
-    "planar-quadrotor": planarQuadrotor,
-    bicycle,
-  });
+export const problems: {
+  readonly [K in ProblemName]: ProblemFactory<ProblemOptionsByName[K], ProblemByName[K]>;
+} = Object.freeze({
+  "double-integrator": doubleIntegrator,
+  pendulum,
+  "cart-pole": cartPole,
+  "planar-quadrotor": planarQuadrotor,
+  bicycle,
+});
 
 /** The registered names, in a stable order. */
 export const problemNames: readonly ProblemName[] = Object.freeze(
@@ -53,10 +67,10 @@ export const problemNames: readonly ProblemName[] = Object.freeze(
 export function getProblem<K extends ProblemName>(
   name: K,
   options?: ProblemOptionsByName[K],
-): Problem {
+): ProblemByName[K] {
   if (typeof name !== "string" || !Object.hasOwn(problems, name)) {
     throw new RecedeError("range", "getProblem", "name", `one of ${problemNames.join(", ")}`, name);
   }
-  const factory = problems[name] as ProblemFactory<ProblemOptionsByName[K]>;
+  const factory = problems[name] as ProblemFactory<ProblemOptionsByName[K], ProblemByName[K]>;
   return factory(options);
 }

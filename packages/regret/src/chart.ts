@@ -10,8 +10,7 @@
  */
 
 import { RecedeError } from "@recede/core";
-import * as vega from "vega";
-import { compile, type TopLevelSpec } from "vega-lite";
+import type { TopLevelSpec } from "vega-lite";
 import type { RegretSeries } from "./tracker.js";
 
 /** One named line: y against x. */
@@ -128,13 +127,16 @@ export function lineChartSpec(
 
 /**
  * Render lines to an SVG string: Vega-Lite `compile` → `vega.parse` →
- * `new vega.View(…, { renderer: "none" }).toSVG()`.
+ * `new vega.View(…, { renderer: "none" }).toSVG()`. Vega and Vega-Lite are imported on the first
+ * call, so programs that never draw do not load them.
  */
 export async function renderLineChartSvg(
   lines: readonly ChartLine[],
   options: LineChartOptions = {},
 ): Promise<string> {
-  const spec = compile(lineChartSpec(lines, options)).spec;
+  const vlSpec = lineChartSpec(lines, options);
+  const [vega, vegaLite] = await Promise.all([import("vega"), import("vega-lite")]);
+  const spec = vegaLite.compile(vlSpec).spec;
   const view = new vega.View(vega.parse(spec), { renderer: "none" });
   try {
     return await view.toSVG();
@@ -157,7 +159,7 @@ export interface RegretChartOptions extends LineChartOptions {
  * Cumulative regret against its bound: draws `series.columns[column]` and `bound(t)` (dashed)
  * over the series' `round` column.
  */
-export function renderRegretChartSvg(
+export async function renderRegretChartSvg(
   series: RegretSeries,
   bound: (round: number) => number,
   options: RegretChartOptions = {},

@@ -27,6 +27,11 @@ export class RowStore {
     return this.count;
   }
 
+  /** Rows the buffer holds before it grows (ring: the ring size). */
+  get capacity(): number {
+    return this.cap;
+  }
+
   /** Bytes held by the row buffer. */
   get bytes(): number {
     return this.data.byteLength;
@@ -57,6 +62,21 @@ export class RowStore {
     const base = this.count * w;
     for (let j = 0; j < w; j++) this.data[base + j] = row[offset + j];
     this.count++;
+  }
+
+  /**
+   * Keep rows 1, 3, 5, … (0-based) and drop the others, in place (growing mode only): with rows at
+   * rounds s, 2s, 3s, … the survivors are at 2s, 4s, … No allocation.
+   */
+  halve(): void {
+    const w = this.width;
+    const keep = this.count >> 1;
+    for (let r = 0; r < keep; r++) {
+      const from = (2 * r + 1) * w;
+      const to = r * w;
+      for (let j = 0; j < w; j++) this.data[to + j] = this.data[from + j];
+    }
+    this.count = keep;
   }
 
   /** Offset in `buffer` of the i-th retained row (0 = oldest). */

@@ -75,7 +75,7 @@ function windowRegret(g: Gen, hi: number[], s: number, e: number): [number, numb
   return [played - vertexMin(gamma, g.lo, hi), L - Math.min(...E)];
 }
 
-function options(g: Gen, history: "summary" | "full" | "window"): RegretTrackerOptions {
+function options(g: Gen, history: "summary" | "full" | "window" | "thinned"): RegretTrackerOptions {
   const hi = g.lo.map((l, i) => l + g.width[i]);
   return {
     dimension: g.d,
@@ -92,6 +92,7 @@ function options(g: Gen, history: "summary" | "full" | "window"): RegretTrackerO
     adaptiveWindow: g.w,
     history,
     window: 5,
+    maxRows: 4,
   };
 }
 
@@ -172,7 +173,7 @@ describe("streaming summaries equal the full-history computation", () => {
   it("summary, window and full histories give identical summaries; the full series ends at them", () => {
     fc.assert(
       fc.property(genArb, (g) => {
-        const trackers = (["summary", "window", "full"] as const).map((h) =>
+        const trackers = (["summary", "window", "full", "thinned"] as const).map((h) =>
           createRegretTracker(options(g, h)),
         );
         for (const r of g.rounds) {
@@ -185,6 +186,7 @@ describe("streaming summaries equal the full-history computation", () => {
         const json = trackers.map((t) => summaryToJson(t.summary()));
         expect(json[1]).toBe(json[0]);
         expect(json[2]).toBe(json[0]);
+        expect(json[3]).toBe(json[0]);
         const s = trackers[2].summary();
         const series = trackers[2].series();
         const last = series.length - 1;
@@ -194,6 +196,20 @@ describe("streaming summaries equal the full-history computation", () => {
         expect(series.columns.expertRegret[last]).toBe(s.experts?.regret);
         expect(series.columns.dynamicRegret[last]).toBe(s.dynamic?.regret);
         expect(series.columns.adaptiveLinear[last]).toBe(s.adaptive?.linear?.regret);
+        // Thinned: at most maxRows = 4 rows, at rounds s, 2s, 3s, … (s a power of two), each equal
+        // to the full series' row of that round.
+        const th = trackers[3].series();
+        expect(th.length).toBeLessThanOrEqual(4);
+        if (th.length > 0) {
+          const stride = th.columns.round[0];
+          expect(Math.log2(stride) % 1).toBe(0);
+          for (let r = 0; r < th.length; r++) {
+            const round = th.columns.round[r];
+            expect(round).toBe((r + 1) * stride);
+            for (const n of th.names) expect(th.columns[n][r]).toBe(series.columns[n][round - 1]);
+          }
+          expect(g.rounds.length - th.columns.round[th.length - 1]).toBeLessThan(2 * stride);
+        }
         // The window keeps the last rows of the full series, oldest first.
         const ws = trackers[1].series();
         for (let r = 0; r < ws.length; r++) {
@@ -319,9 +335,9 @@ describe("streaming summaries equal the full-history computation", () => {
 });
 
 describe("bounded memory", () => {
-  it("a million-round streaming run keeps no per-round series; the window keeps at most w rows", () => {
+  it("a million-round run: summary keeps no rows, window ≤ w rows, thinned ≤ maxRows rows", () => {
     const d = 2;
-    const make = (history: "summary" | "window") =>
+    const make = (history: "summary" | "window" | "thinned") =>
       createRegretTracker({
         dimension: d,
         domain: boxDomain(-1, 1, d),
@@ -329,9 +345,11 @@ describe("bounded memory", () => {
         adaptiveWindow: 100,
         history,
         window: 256,
+        maxRows: 512,
       });
     const summary = make("summary");
     const windowed = make("window");
+    const thinned = make("thinned");
     const x = new Float64Array(d);
     const g = new Float64Array(d);
     const lo = {
@@ -339,7 +357,7 @@ describe("bounded memory", () => {
       gradient: (_u: Float64Array, out: Float64Array) => out.set(g) ?? out,
     };
     const input = { decision: x, gradient: g, loss: 0, lossObject: lo };
-    let bytesAt1000 = [0, 0];
+    let bytesAt1000 = [0, 0, 0];
     const T = 1_000_000;
     for (let t = 1; t <= T; t++) {
       g[0] = Math.sin(t);
@@ -349,7 +367,10 @@ describe("bounded memory", () => {
       (input as { loss: number }).loss = g[0] * x[0] + g[1] * x[1];
       summary.record(input);
       windowed.record(input);
-      if (t === 1000) bytesAt1000 = [summary.retainedBytes, windowed.retainedBytes];
+      thinned.record(input);
+      if (t === 1000) {
+        bytesAt1000 = [summary.retainedBytes, windowed.retainedBytes, thinned.retainedBytes];
+      }
     }
     expect(summary.rounds).toBe(T);
     expect(summary.retainedRows).toBe(0);
@@ -359,6 +380,14 @@ describe("bounded memory", () => {
     expect(windowed.series().columns.round[255]).toBe(T);
     expect(summary.retainedBytes).toBe(bytesAt1000[0]);
     expect(windowed.retainedBytes).toBe(bytesAt1000[1]);
+    expect(thinned.retainedBytes).toBe(bytesAt1000[2]);
+    // Thinned: ≤ 512 rows spanning the whole run at an even stride.
+    const th = thinned.series();
+    expect(thinned.retainedRows).toBeLessThanOrEqual(512);
+    expect(th.length).toBeGreaterThanOrEqual(256);
+    const stride = th.columns.round[0];
+    expect(th.columns.round[th.length - 1]).toBe(th.length * stride);
+    expect(T - th.columns.round[th.length - 1]).toBeLessThan(2 * stride);
     expect(summaryToJson(summary.summary())).toBe(summaryToJson(windowed.summary()));
   });
 });

@@ -1,6 +1,7 @@
-// Compensated summation: Neumaier's variant recovers sums that cancel catastrophically
-// (A. Neumaier, ZAMM 54, 1974; N. J. Higham, "Accuracy and Stability of Numerical Algorithms",
-// 2nd ed., 2002, §4.3). Exact references are computed with BigInt-scaled integers.
+// Compensated summation (TwoSum cascade, "Sum2" of T. Ogita, S. M. Rump, S. Oishi, "Accurate Sum
+// and Dot Product", SIAM J. Sci. Comput. 2005) recovers sums that cancel catastrophically
+// (N. J. Higham, "Accuracy and Stability of Numerical Algorithms", 2nd ed., 2002, §4.3).
+// Exact references are computed with BigInt-scaled integers.
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { compensatedSum, pairwiseSum } from "./summation.js";

@@ -2,31 +2,34 @@
  * Compensated summation for long regret sums (MATH.md §8.4: accumulate regret sums with
  * Kahan/pairwise summation for long horizons).
  *
- * We use Neumaier's variant of Kahan summation (A. Neumaier, "Rundungsfehleranalyse einiger
- * Verfahren zur Summation endlicher Summen", ZAMM 54, 1974; W. Kahan, "Further remarks on reducing
- * truncation errors", Comm. ACM 8(1), 1965): alongside the running sum s keep a compensation c that
- * collects the low-order bits lost by each addition,
- *   t = s + v;  c += |s| ≥ |v| ? (s − t) + v : (v − t) + s;  s = t,
- * and report s + c. The error bound is 2u·Σ|v_i| + O(n u²) independent of n (Higham, "Accuracy and
- * Stability of Numerical Algorithms", 2nd ed., SIAM 2002, §4.3), against (n−1)u·Σ|v_i| for the
- * naive loop.
+ * Alongside the running sum s we keep a compensation c that collects the rounding error of every
+ * addition, computed exactly and without branches by Knuth's TwoSum (D. E. Knuth, "The Art of
+ * Computer Programming", Vol. 2, §4.2.2):
+ *   t = s + v;  b = t − s;  c += (s − (t − b)) + (v − b);  s = t,
+ * and report s + c. This is the cascaded summation "Sum2" of T. Ogita, S. M. Rump, S. Oishi
+ * ("Accurate Sum and Dot Product", SIAM J. Sci. Comput. 26(6), 2005), equivalent in accuracy to
+ * Neumaier's variant of Kahan summation (A. Neumaier, ZAMM 54, 1974): error ≤ u|Σv_i| +
+ * γ²_{n−1}Σ|v_i|, i.e. as if computed in twice the working precision and then rounded, against
+ * (n−1)u·Σ|v_i| for the naive loop (Higham, "Accuracy and Stability of Numerical Algorithms",
+ * 2nd ed., SIAM 2002, §4.3). TwoSum needs no comparison, so sign-alternating data cost no branch
+ * mispredictions.
  *
  * @module
  */
 
 /**
- * Add `v` to the compensated pair (`sum[i]`, `comp[i]`) in place (Neumaier's update). No allocation.
+ * Add `v` to the compensated pair (`sum[i]`, `comp[i]`) in place (TwoSum update). No allocation.
  */
 export function compensatedAdd(sum: Float64Array, comp: Float64Array, i: number, v: number): void {
   const s = sum[i];
   const t = s + v;
-  if (Math.abs(s) >= Math.abs(v)) comp[i] += s - t + v;
-  else comp[i] += v - t + s;
+  const b = t - s;
+  comp[i] += s - (t - b) + (v - b);
   sum[i] = t;
 }
 
 /**
- * Σ_{i<n} x[offset + i·stride] by Neumaier-compensated summation. No allocation.
+ * Σ_{i<n} x[offset + i·stride] by compensated (TwoSum / Sum2) summation. No allocation.
  *
  * @param x - values
  * @param offset - index of the first value
@@ -44,8 +47,8 @@ export function compensatedSum(
   for (let i = 0; i < n; i++) {
     const v = x[offset + i * stride];
     const t = s + v;
-    if (Math.abs(s) >= Math.abs(v)) c += s - t + v;
-    else c += v - t + s;
+    const b = t - s;
+    c += s - (t - b) + (v - b);
     s = t;
   }
   return s + c;

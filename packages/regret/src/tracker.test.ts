@@ -183,6 +183,20 @@ describe("per-round series and export", () => {
     expect(seq).toBeCloseTo(e2, 13);
   });
 
+  it("bestOfExperts in hindsight equals the streamed expert summary", () => {
+    const { tracker } = make();
+    const h = tracker.bestOfExperts([
+      new Float64Array([1, 0]),
+      (_t, _lo, out) => out.fill(0).fill(1, 1),
+    ]);
+    const s = tracker.summary().experts;
+    expect(h.bestIndex).toBe(s?.bestIndex);
+    expect(h.regret).toBeCloseTo(s?.regret ?? Number.NaN, 13);
+    expect(Array.from(h.losses).map((v) => v.toFixed(12))).toEqual(
+      Array.from(s?.losses ?? []).map((v) => v.toFixed(12)),
+    );
+  });
+
   it("reset forgets every round and keeps the options", () => {
     const { tracker } = make();
     tracker.reset();

@@ -5,7 +5,7 @@
  *
  * Streaming design. Every quantity a comparator needs is an additive per-round statistic
  * s_t = (ℓ_t(x_t), ‖g_t‖₂², ‖g_t‖∞², ⟨g_t, x_t⟩, ℓ_t(u_t), ⟨g_t, u_t⟩, g_t, (ℓ_t(e_i))_i, A_t, b_t, c_t),
- * so the totals S_T = Σ_t s_t (Neumaier-compensated, MATH.md §8.4) determine every static regret,
+ * so the totals S_T = Σ_t s_t (compensated by TwoSum, MATH.md §8.4) determine every static regret,
  * and the same evaluation applied to a sliding-window sum gives adaptive regret. A round is first
  * staged (validated and evaluated into scratch buffers) and only then committed, so a bad round
  * throws a {@link RecedeError} and leaves the tracker exactly as it was.
@@ -55,10 +55,13 @@ export type Expert = Float64Array | ComparatorSequence;
  *   comparator with {@link RegretTracker.regretAgainst}); memory O(T·d).
  * - `"window"`: the series rows and decisions of the last `window` rounds only (ring buffers, no
  *   allocation per round).
+ * - `"thinned"`: series rows of rounds s, 2s, 3s, … only, at most `maxRows` of them: when full,
+ *   every other row is dropped and the stride s doubles, so a run of any length is covered end to
+ *   end at even spacing in bounded memory (no decisions or loss objects; no allocation per round).
  * - `"summary"`: no per-round rows; the summaries only (no allocation per round). Memory O(k + w·k)
  *   for k statistics and adaptive window w, independent of T.
  */
-export type HistoryMode = "full" | "window" | "summary";
+export type HistoryMode = "full" | "window" | "thinned" | "summary";
 
 /** The norm used for path lengths. */
 export type PathNorm = "l1" | "l2" | "linf";
@@ -100,6 +103,8 @@ export interface RegretTrackerOptions {
   readonly retainLossObjects?: boolean;
   /** Rows kept in `"window"` mode. @defaultValue 1024 */
   readonly window?: number;
+  /** Most rows kept in `"thinned"` mode (an even integer ≥ 2). @defaultValue 2048 */
+  readonly maxRows?: number;
   /**
    * w for adaptive regret: AR_T(w) = max over windows [s, s+w−1] ⊆ [1, T] of the window's static
    * regret against the window's best fixed comparator (each enabled static kind); when T < w, the
@@ -357,6 +362,7 @@ export class RegretTracker {
   private readonly row: Float64Array;
   private readonly detachers: Array<() => void> = [];
   private readonly skipInvalid: boolean;
+  private stride = 1;
   private readonly lossLinear: boolean;
   private skipped = 0;
   private lastErr: RecedeError | undefined = undefined;
@@ -442,12 +448,22 @@ export class RegretTracker {
     }
     this.pathNorm = pn;
     const mode = options.history ?? "full";
-    if (mode !== "full" && mode !== "window" && mode !== "summary") {
-      throw new RecedeError("range", fn, "history", '"full", "window" or "summary"', mode);
+    if (mode !== "full" && mode !== "window" && mode !== "thinned" && mode !== "summary") {
+      throw new RecedeError(
+        "range",
+        fn,
+        "history",
+        '"full", "window", "thinned" or "summary"',
+        mode,
+      );
     }
     this.history = mode;
     const windowRows =
       options.window === undefined ? 1024 : requireInteger(fn, "window", options.window, 1);
+    const maxRows =
+      options.maxRows === undefined ? 2048 : requireInteger(fn, "maxRows", options.maxRows, 2);
+    if (maxRows % 2 !== 0)
+      throw new RecedeError("range", fn, "maxRows", "an even integer >= 2", maxRows);
     this.adaptiveW =
       options.adaptiveWindow === undefined
         ? 0
@@ -511,9 +527,9 @@ export class RegretTracker {
     this.names = names;
     this.row = new Float64Array(names.length);
     const ring = mode === "window";
-    const cap = ring ? windowRows : 256;
+    const cap = ring ? windowRows : mode === "thinned" ? maxRows : 256;
     this.rows = mode === "summary" ? null : new RowStore(names.length, cap, ring);
-    this.decisions = mode === "summary" ? null : new RowStore(d, cap, ring);
+    this.decisions = mode === "summary" || mode === "thinned" ? null : new RowStore(d, cap, ring);
     this.lossObjects =
       mode === "full" && (options.retainLossObjects ?? true)
         ? new RefStore<LossObject>(cap, false)
@@ -526,7 +542,10 @@ export class RegretTracker {
     return this.t;
   }
 
-  /** Rows of per-round series currently retained (0 in `"summary"` mode; ≤ `window` in `"window"`). */
+  /**
+   * Rows of per-round series currently retained (0 in `"summary"` mode; ≤ `window` in `"window"`;
+   * ≤ `maxRows` in `"thinned"`).
+   */
   get retainedRows(): number {
     return this.rows === null ? 0 : this.rows.length;
   }
@@ -569,7 +588,8 @@ export class RegretTracker {
   /**
    * Record one round. Validates everything first (decision length and finiteness, loss, gradient,
    * comparator and expert outputs and their loss values); on any failure throws a
-   * {@link RecedeError} and the tracker is unchanged. No allocation in `"summary"`/`"window"` modes.
+   * {@link RecedeError} and the tracker is unchanged. No allocation in the `"summary"`, `"window"`
+   * and `"thinned"` modes.
    */
   record(input: RoundInput | RoundRecord): void {
     if (this.skipInvalid) {
@@ -875,7 +895,14 @@ export class RegretTracker {
     if (this.rows !== null) {
       this.decisions?.push(input.decision, 0);
       this.lossObjects?.push(input.lossObject);
-      this.writeRow(st[S_LOSS]);
+      if (this.history !== "thinned") this.writeRow(st[S_LOSS]);
+      else if (this.t % this.stride === 0) {
+        this.writeRow(st[S_LOSS]);
+        if (this.rows.length === this.rows.capacity) {
+          this.rows.halve();
+          this.stride *= 2;
+        }
+      }
     }
   }
 
@@ -1131,6 +1158,39 @@ export class RegretTracker {
     return this.hindsight(sequence, "RegretTracker.regretAgainstSequence", "sequence");
   }
 
+  /**
+   * The best of a user-supplied finite set of experts/policies, evaluated in hindsight on the stored
+   * loss objects: regret = Σ_t ℓ_t(x_t) − min_i Σ_t ℓ_t(e_i(t)). Same requirements as
+   * {@link RegretTracker.regretAgainst}; for streaming use pass `experts` to the tracker instead.
+   */
+  bestOfExperts(experts: readonly Expert[]): ExpertRegretSummary {
+    const fn = "RegretTracker.bestOfExperts";
+    if (!Array.isArray(experts) || experts.length === 0) {
+      throw new RecedeError("type", fn, "experts", "a non-empty array", experts);
+    }
+    const losses = new Float64Array(experts.length);
+    let L = Number.NaN;
+    experts.forEach((e, i) => {
+      if (!(e instanceof Float64Array) && typeof e !== "function") {
+        throw new RecedeError("type", fn, `experts[${i}]`, "a Float64Array or a function", e);
+      }
+      const seq: ComparatorSequence = e instanceof Float64Array ? () => e : e;
+      const r = this.hindsight(seq, fn, `experts[${i}]`);
+      if (Number.isNaN(L)) L = this.cumulativeLossFromRows();
+      losses[i] = L - r;
+    });
+    let bi = 0;
+    for (let i = 1; i < losses.length; i++) if (losses[i] < losses[bi]) bi = i;
+    return { regret: L - losses[bi], bestIndex: bi, bestLoss: losses[bi], losses };
+  }
+
+  private cumulativeLossFromRows(): number {
+    const rows = this.rows as RowStore;
+    const x = new Float64Array(rows.length);
+    for (let r = 0; r < rows.length; r++) x[r] = rows.buffer[rows.offsetOf(r) + 1];
+    return compensatedSum(x);
+  }
+
   private hindsight(sequence: ComparatorSequence, fnName: string, arg: string): number {
     const d = this.dimension;
     if (this.history !== "full" || this.rows === null) {
@@ -1175,6 +1235,7 @@ export class RegretTracker {
 
   private resetState(): void {
     this.t = 0;
+    this.stride = 1;
     this.skipped = 0;
     this.lastErr = undefined;
     this.gradRounds = 0;

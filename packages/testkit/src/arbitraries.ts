@@ -81,13 +81,16 @@ export function simplexPoint(n: number, floor = 1e-8): fc.Arbitrary<Float64Array
     });
 }
 
-/** Points of the closed Euclidean ball {‖x − center‖ ≤ radius} (center default 0). */
+/**
+ * Points of the closed Euclidean ball {‖x − center‖ ≤ radius} (center default 0). The radius is
+ * shrunk by 1e-12 (relative) so that rounding in adding the center cannot push a point outside.
+ */
 export function ballPoint(
   n: number,
   radius: number,
   center?: Float64Array,
 ): fc.Arbitrary<Float64Array> {
-  return boundedGradient(n, radius).map((v) => {
+  return boundedGradient(n, radius * (1 - 1e-12)).map((v) => {
     if (center !== undefined) for (let i = 0; i < n; i++) v[i] += center[i];
     return v;
   });

@@ -26,8 +26,11 @@ export interface QuadraticTarget {
 export interface LearnerLawRow {
   /** Label used in the law names. */
   readonly name: string;
-  /** Make a fresh learner in its initial state (called several times per case). */
-  readonly create: () => OnlineLearner<Feedback, unknown>;
+  /**
+   * Make a fresh learner in its initial state from a seed (called several times per case with the
+   * same seed; deterministic learners may ignore it).
+   */
+  readonly create: (seed: number) => OnlineLearner<Feedback, unknown>;
   /** Gradients of the learner's dimension for random traces (keep them bounded). */
   readonly gradient: fc.Arbitrary<Float64Array>;
   /** Length of the random traces. @defaultValue 12 */
@@ -87,6 +90,7 @@ export function learnerLaws(rows: readonly LearnerLawRow[], run: LawRunOptions =
   for (const row of rows) {
     const T = row.rounds ?? 12;
     const gs = fc.array(row.gradient, { minLength: 1, maxLength: T });
+    const seeds = fc.integer({ min: 0, max: 0x7fffffff });
     const mk = <P extends unknown[]>(name: string, prop: fc.IRawProperty<P>): Law => ({
       name: `${row.name}: ${name}`,
       check: () => fc.assert(prop, params),
@@ -95,8 +99,8 @@ export function learnerLaws(rows: readonly LearnerLawRow[], run: LawRunOptions =
     laws.push(
       mk(
         "finite decisions, inputs not mutated, one record per update",
-        fc.property(gs, (seq) => {
-          const l = row.create();
+        fc.property(gs, seeds, (seq, sd) => {
+          const l = row.create(sd);
           const copies = seq.map((g) => g.slice());
           const records: number[] = [];
           l.observe((r: RoundRecord) => {
@@ -131,10 +135,10 @@ export function learnerLaws(rows: readonly LearnerLawRow[], run: LawRunOptions =
 
     laws.push(
       mk(
-        "same inputs give a bit-identical trace",
-        fc.property(gs, (seq) => {
-          const a = trace(row.create(), seq);
-          const b = trace(row.create(), seq);
+        "same seed and inputs give a bit-identical trace",
+        fc.property(gs, seeds, (seq, sd) => {
+          const a = trace(row.create(sd), seq);
+          const b = trace(row.create(sd), seq);
           for (let t = 0; t < a.length; t++)
             assertThat(bitEqual(a[t], b[t]), `traces differ at ${t}`);
         }),
@@ -144,8 +148,8 @@ export function learnerLaws(rows: readonly LearnerLawRow[], run: LawRunOptions =
     laws.push(
       mk(
         "snapshot/restore and reset",
-        fc.property(gs, gs, (first, second) => {
-          const l = row.create();
+        fc.property(gs, gs, seeds, (first, second, sd) => {
+          const l = row.create(sd);
           const x0 = l.decision().slice();
           trace(l, first);
           const snap = l.snapshot();
@@ -163,7 +167,7 @@ export function learnerLaws(rows: readonly LearnerLawRow[], run: LawRunOptions =
             l.round === 0 && bitEqual(l.decision(), x0),
             "reset did not return to x₁, round 0",
           );
-          const fresh = trace(row.create(), first);
+          const fresh = trace(row.create(sd), first);
           const afterReset = trace(l, first);
           for (let t = 0; t < fresh.length; t++) {
             assertThat(bitEqual(fresh[t], afterReset[t]), `trace after reset differs at ${t}`);
@@ -179,9 +183,10 @@ export function learnerLaws(rows: readonly LearnerLawRow[], run: LawRunOptions =
           gs,
           fc.nat(),
           fc.constantFrom(Number.NaN, Infinity, -Infinity),
-          (seq, k, bad) => {
-            const l = row.create();
-            const ref = row.create();
+          seeds,
+          (seq, k, bad, sd) => {
+            const l = row.create(sd);
+            const ref = row.create(sd);
             const n = l.dimension;
             trace(l, seq.slice(0, -1));
             trace(ref, seq.slice(0, -1));
@@ -234,7 +239,7 @@ export function learnerLaws(rows: readonly LearnerLawRow[], run: LawRunOptions =
       laws.push({
         name: `${row.name}: converges on a strongly convex quadratic`,
         check: () => {
-          const l = row.create();
+          const l = row.create(0);
           const lossObject = quadraticLoss(q);
           for (let t = 0; t < q.rounds; t++) l.update({ lossObject });
           const x = l.decision();

@@ -7,13 +7,7 @@ import {
 import { catchRecedeError } from "@recede/testkit";
 import { describe, expect, it } from "vitest";
 
-function _sum(x: Float64Array): number {
-  let s = 0;
-  for (const v of x) s += v;
-  return s;
-}
-
-describe("diagonalGaussian (expectation parameters)", () => {
+describe("diagonalGaussian", () => {
   it("the step is the exponential tilt N⁺ ∝ N_t·exp(−η(a z + b z²)) (product of Gaussians)", () => {
     // N(μ, σ²)·exp(−η(a z + b z²)) is Gaussian with precision 1/σ² + 2ηb and
     // mean (μ/σ² − ηa)/(1/σ² + 2ηb) (completing the square; common practice).

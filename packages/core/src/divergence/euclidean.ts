@@ -66,8 +66,9 @@ export interface EuclideanOptions {
    */
   readonly feasible?: EuclideanFeasibleSet;
   /**
-   * Relative slack of {@link Geometry.contains} for a ball: x is accepted when
-   * ‖x − c‖ ≤ r·(1 + tolerance), which absorbs the rounding of the projection itself.
+   * Relative slack of {@link Geometry.contains}, which absorbs the rounding of the projection
+   * itself: a ball accepts ‖x − c‖ ≤ r·(1 + tolerance); a simplex accepts
+   * |Σxᵢ − z| ≤ (tolerance + d·2⁻⁵³)·z (boxes are exact).
    * @defaultValue 1e-12
    */
   readonly tolerance?: number;
@@ -85,9 +86,10 @@ export interface EuclideanGeometry extends Geometry {
 const FN = "euclidean";
 
 /**
- * The Euclidean geometry on ℝᵈ, optionally restricted to a ball or a box.
+ * The Euclidean geometry on ℝᵈ, optionally restricted to a ball, a box or a scaled simplex.
  *
- * ψ(x) = ½‖x‖², D(x‖y) = ½‖x − y‖², ∇ψ = ∇ψ* = identity, and the mirror step is online (projected)
+ * ψ(x) = ½‖x‖², D(x‖y) = ½‖x − y‖², ∇ψ = ∇ψ* = identity on ℝᵈ (the projection belongs to the
+ * step), and the mirror step is online (projected)
  * gradient descent:  x⁺ = Π_X(x_t − η g),  with Π_X the Euclidean projection
  * (ball: c + (x − c)·min(1, r/‖x − c‖); box: clamp each coordinate; simplex: xᵢ = max(vᵢ − τ, 0)
  * with the threshold τ found by sorting, O(d log d) — Duchi, Shalev-Shwartz, Singer & Chandra,

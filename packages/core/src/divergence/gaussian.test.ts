@@ -2,12 +2,6 @@ import { klDiagonalGaussian, klGaussian } from "@recede/core";
 import { catchRecedeError } from "@recede/testkit";
 import { describe, expect, it } from "vitest";
 
-function _sum(x: Float64Array): number {
-  let s = 0;
-  for (const v of x) s += v;
-  return s;
-}
-
 describe("klDiagonalGaussian / klGaussian typed errors", () => {
   it("name the function, the argument, what was expected and what was given", () => {
     catchRecedeError(() => klDiagonalGaussian([0], [0], [0], [1]), {

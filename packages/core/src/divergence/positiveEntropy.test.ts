@@ -2,12 +2,6 @@ import { positiveEntropy } from "@recede/core";
 import { catchRecedeError } from "@recede/testkit";
 import { describe, expect, it } from "vitest";
 
-function _sum(x: Float64Array): number {
-  let s = 0;
-  for (const v of x) s += v;
-  return s;
-}
-
 describe("positiveEntropy (orthant)", () => {
   it("step is the unnormalized multiplicative update x e^{−ηg} (Kivinen & Warmuth 1997, EGU)", () => {
     const geo = positiveEntropy({ dimension: 3 });

@@ -293,6 +293,34 @@ describe("mirrorDescent", () => {
     expect(Array.from(l.decision())).toEqual([0, 1]);
   });
 
+  it("a user geometry whose step throws fails as a typed callback error, state untouched", () => {
+    const base = euclidean({ dimension: 2 });
+    const geometry = {
+      ...base,
+      name: "fragile",
+      dimension: 2,
+      potential: (x: Float64Array) => base.potential(x),
+      divergence: (x: Float64Array, y: Float64Array) => base.divergence(x, y),
+      mirrorMap: (x: Float64Array, o: Float64Array) => base.mirrorMap(x, o),
+      inverseMirrorMap: (x: Float64Array, o: Float64Array) => base.inverseMirrorMap(x, o),
+      contains: (x: Float64Array) => base.contains(x),
+      step: (xt: Float64Array, g: Float64Array, eta: number, out: Float64Array) => {
+        if (g[0] > 100) throw new Error("solver diverged");
+        return base.step(xt, g, eta, out);
+      },
+    };
+    const l = mirrorDescent({ geometry, initial: [1, 1], stepSize: 0.5 });
+    l.update({ gradient: g(1, 1) });
+    catchRecedeError(() => l.update({ gradient: g(1000, 0) }), {
+      code: "callback",
+      fn: "mirrorDescent.update",
+      arg: "geometry.step (fragile)",
+      message: "solver diverged",
+    });
+    expect(Array.from(l.decision())).toEqual([0.5, 0.5]);
+    expect(l.round).toBe(1);
+  });
+
   it("a mirror step that leaves the domain is refused with the state untouched", () => {
     // On the positive orthant x·e^{1e6} overflows to +∞: the step is rejected, not committed.
     const l = mirrorDescent({

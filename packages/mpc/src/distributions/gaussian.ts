@@ -217,7 +217,7 @@ class GaussianPlan implements PlanDistribution {
     const len = this.len;
     const tm = this.targetMean;
     const tv = this.targetVar;
-    tm.fill(0);
+    for (let p = 0; p < len; p++) tm[p] = 0;
     let wsum = 0;
     for (let k = 0; k < count; k++) {
       const w = weights[k];
@@ -228,7 +228,7 @@ class GaussianPlan implements PlanDistribution {
     }
     if (normalized) {
       if (this.adapt) {
-        tv.fill(0);
+        for (let p = 0; p < len; p++) tv[p] = 0;
         for (let k = 0; k < count; k++) {
           const w = weights[k];
           if (w === 0) continue;
@@ -247,7 +247,7 @@ class GaussianPlan implements PlanDistribution {
       const mean = this.mean;
       const variance = this.variance;
       if (this.adapt) {
-        tv.fill(0);
+        for (let p = 0; p < len; p++) tv[p] = 0;
         for (let k = 0; k < count; k++) {
           const w = weights[k];
           if (w === 0) continue;

@@ -17,7 +17,7 @@ import {
 } from "@recede/core";
 import type { Problem } from "@recede/problems";
 import { requireFiniteArray } from "../internal/validate.js";
-import type { Actor, StochasticPolicy } from "../policies/policy.js";
+import { type Actor, controlOf, type StochasticPolicy } from "../policies/policy.js";
 import { EpisodeBatch } from "./episodeBatch.js";
 
 /** Draw one initial state into `out[offset .. offset+n)`. */
@@ -329,7 +329,9 @@ export class RolloutEnvironment {
 
   /**
    * Closed-loop costs of a deterministic actor (e.g. a deployed policy or an expert) over
-   * `episodes` episodes with initial states and disturbances drawn from `stream`.
+   * `episodes` episodes with initial states and disturbances drawn from `stream`. Episodes run one
+   * after the other, and `actor.reset()` (when the actor has one, as an MPC controller does) is
+   * called before each, so a stateful actor sees each trajectory in order.
    * Non-finite costs (a diverged episode) are reported as +Infinity.
    */
   evaluate(actor: Actor, episodes: number, stream: Stream): Evaluation {
@@ -338,35 +340,27 @@ export class RolloutEnvironment {
     if (typeof actor !== "object" || actor === null || typeof actor.act !== "function") {
       throw new RecedeError("type", fn, "actor", "an object with act(state)", actor);
     }
-    const batch = new EpisodeBatch(
-      episodes,
-      this.horizon,
-      this.stateSize,
-      this.controlSize,
-      this.controlSize,
-    );
-    const saved = this.discreteControls;
     const m = this.controlSize;
     const n = this.stateSize;
+    const batch = new EpisodeBatch(1, this.horizon, n, m, m);
     const s = new Float64Array(n);
     // The actor returns controls, so bypass the discrete table during evaluation.
-    const run = saved === null ? this : this.withoutTable();
-    run.collectWith(
-      {
-        decide(_e, _t, states, so, act, ao): number {
-          for (let k = 0; k < n; k++) s[k] = states[so + k];
-          const r = actor.act(s);
-          for (let j = 0; j < m; j++) act[ao + j] = r[j];
-          return Number.NaN;
-        },
+    const run = this.discreteControls === null ? this : this.withoutTable();
+    const reset = (actor as { reset?: unknown }).reset;
+    const decider: StepDecider = {
+      decide(_e, _t, states, so, act, ao): number {
+        for (let k = 0; k < n; k++) s[k] = states[so + k];
+        const r = controlOf(actor.act(s));
+        for (let j = 0; j < m; j++) act[ao + j] = r[j];
+        return Number.NaN;
       },
-      stream,
-      batch,
-    );
+    };
     const costs = new Float64Array(episodes);
     let sum = 0;
     for (let e = 0; e < episodes; e++) {
-      const v = batch.episodeCost(e);
+      if (typeof reset === "function") reset.call(actor);
+      run.collectWith(decider, stream, batch);
+      const v = batch.episodeCost(0);
       costs[e] = Number.isFinite(v) ? v : Number.POSITIVE_INFINITY;
       sum += costs[e];
     }

@@ -1,6 +1,7 @@
 import { readFileSync } from "node:fs";
 import { createStream } from "@recede/core";
 import {
+  type Actor,
   aggrevated,
   type Expert,
   environmentFromProblem,
@@ -82,8 +83,7 @@ describe("AggreVaTeD converges to the expert's gain", () => {
       seed: 4,
       trustRegion: { radius: 0.02 },
     });
-    const evalCost = (actor: { act(s: Float64Array): ArrayLike<number> }) =>
-      env.evaluate(actor, 20, createStream(8)).mean;
+    const evalCost = (actor: Actor) => env.evaluate(actor, 20, createStream(8)).mean;
     const expertCost = evalCost(lqrExpert);
     const start = evalCost(policyActor(policy, policy.initialParameters()));
     const learned = evalCost(policyActor(policy, res.parameters));

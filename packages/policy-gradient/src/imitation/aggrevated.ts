@@ -14,7 +14,7 @@ import type { RolloutEnvironment } from "../environment/environment.js";
 import type { EpisodeBatch } from "../environment/episodeBatch.js";
 import type { ScoredSamples } from "../estimators/scoredSamples.js";
 import { requireFiniteArray, requireUnitHalfOpen } from "../internal/validate.js";
-import type { StochasticPolicy } from "../policies/policy.js";
+import { controlOf, type StochasticPolicy } from "../policies/policy.js";
 import type { FisherGeometryOptions } from "../updates/fisherGeometry.js";
 import {
   type PolicyOptimizer,
@@ -135,7 +135,7 @@ function rolloutCostToGo(
         } else {
           for (let k = 0; k < n; k++) s[k] = x[e * n + k];
           expert.reset?.();
-          const a = expert.act(s);
+          const a = controlOf(expert.act(s));
           for (let j = 0; j < m; j++) u[e * m + j] = a[j];
           env.clip(u, e * m);
         }
@@ -249,7 +249,7 @@ export function aggrevated(options: AggrevatedOptions): AggrevatedResult {
         for (let k = 0; k < n; k++) s[k] = batch.states[i * n + k];
         for (let j = 0; j < m; j++) a[j] = batch.controls[i * m + j];
         q[i] = ctg.call(expert, s, a, T - t);
-        const ue = expert.act(s);
+        const ue = controlOf(expert.act(s));
         for (let j = 0; j < m; j++) ua[j] = ue[j];
         env.clip(ua, 0);
         v[i] = ctg.call(expert, s, ua, T - t);

@@ -8,7 +8,7 @@ import type { RolloutEnvironment } from "../environment/environment.js";
 import type { EpisodeBatch } from "../environment/episodeBatch.js";
 import { requireFiniteArray, requireUnitClosed } from "../internal/validate.js";
 import { policyActor } from "../policies/actor.js";
-import type { Actor, StochasticPolicy } from "../policies/policy.js";
+import { type Actor, controlOf, type StochasticPolicy } from "../policies/policy.js";
 import type { FitPolicyOptions } from "./fitPolicy.js";
 import { type ImitationLearner, imitationLearner } from "./imitationLearner.js";
 
@@ -199,7 +199,7 @@ function mixtureRollouts(
       {
         decide(_e, _t, st, so, act, ao, str): number {
           for (let i = 0; i < n; i++) s[i] = st[so + i];
-          const u = expert.act(s);
+          const u = controlOf(expert.act(s));
           labelOf(env, u, labels, k * a);
           for (let i = 0; i < n; i++) states[k * n + i] = s[i];
           if (beta >= 1 || (beta > 0 && str.uniform() < beta)) {

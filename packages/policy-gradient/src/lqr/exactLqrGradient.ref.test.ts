@@ -93,7 +93,7 @@ describe("LQR policy updates converge to the DARE gain (scipy.linalg.solve_discr
       const p = problemOf(d, false);
       // Start from a stabilizing gain: the DARE gain of a much more expensive control (R × 100).
       const start = fixture.cases.find((c) => c.name === d.name)?.K;
-      let k = start ? flat(start) : new Float64Array(d.K.flat().length);
+      let k: Float64Array = start ? flat(start) : new Float64Array(d.K.flat().length);
       // Fazel et al. (Thm 7): NPG with η ≤ 1/(2‖R + BᵀP_{K₀}B‖) (constant from memory; we use the
       // 2-norm bound ‖·‖ ≤ Frobenius norm) converges linearly.
       const curv = p.evaluate(k).curvature;
@@ -107,7 +107,7 @@ describe("LQR policy updates converge to the DARE gain (scipy.linalg.solve_discr
     it(`${d.name}: Gauss–Newton with η = ½ (Hewer's policy iteration) converges in a few steps`, () => {
       const p = problemOf(d, false);
       const start = fixture.cases.find((c) => c.name === d.name)?.K;
-      let k = start ? flat(start) : new Float64Array(d.K.flat().length);
+      let k: Float64Array = start ? flat(start) : new Float64Array(d.K.flat().length);
       for (let it = 0; it < 12; it++) k = p.step(k, "gauss-newton", 0.5);
       expect(maxAbs(k, flat(d.K))).toBeLessThan(1e-9 * scaleOf(flat(d.K)));
     });

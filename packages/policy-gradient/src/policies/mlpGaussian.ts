@@ -8,6 +8,7 @@
 import {
   createStream,
   RecedeError,
+  requireFinite,
   requireInteger,
   requirePositive,
   type Stream,
@@ -47,12 +48,23 @@ export interface MlpGaussianPolicyOptions {
    * @defaultValue 0
    */
   readonly seed?: number | string;
+  /**
+   * Fixed input normalization: the network sees h₀ = (x − stateOffset) ⊘ stateScale. Set them to
+   * the typical state and its spread so that every input is of order one.
+   * @defaultValue zeros
+   */
+  readonly stateOffset?: ArrayLike<number>;
+  /**
+   * See `stateOffset`; every entry > 0.
+   * @defaultValue ones
+   */
+  readonly stateScale?: ArrayLike<number>;
 }
 
 /**
  * The tanh-MLP Gaussian policy family.
  *
- * Forward pass: h₀ = x; h_l = tanh(W_l h_{l−1} + b_l) for hidden layers; μ = W_L h_{L−1} + b_L.
+ * Forward pass: h₀ = (x − offset) ⊘ scale (fixed input normalization); h_l = tanh(W_l h_{l−1} + b_l) for hidden layers; μ = W_L h_{L−1} + b_L.
  * θ layout: for each layer l = 1..L, W_l (out×in, row-major) then b_l; finally ln σ (m).
  * Reverse pass (backpropagation; Rumelhart, Hinton & Williams, "Learning representations by
  * back-propagating errors", Nature, 1986): δ_L = ∂ℓ/∂μ, ∂ℓ/∂W_l = δ_l h_{l−1}ᵀ, ∂ℓ/∂b_l = δ_l,
@@ -82,6 +94,8 @@ export class MlpGaussianPolicy implements StochasticPolicy {
   private readonly mu2: Float64Array;
   private readonly dmu: Float64Array;
   private readonly init: Float64Array;
+  private readonly inOffset: Float64Array;
+  private readonly inScale: Float64Array;
 
   /** Use {@link mlpGaussianPolicy}; the constructor trusts validated options. */
   constructor(
@@ -89,7 +103,11 @@ export class MlpGaussianPolicy implements StochasticPolicy {
     initialStd: number,
     outputScale: number,
     seed: number | string,
+    inOffset?: Float64Array,
+    inInvScale?: Float64Array,
   ) {
+    this.inOffset = inOffset ?? new Float64Array(sizes[0]);
+    this.inScale = inInvScale ?? new Float64Array(sizes[0]).fill(1);
     const L = sizes.length - 1;
     this.sizes = sizes.slice();
     this.stateSize = sizes[0];
@@ -151,7 +169,9 @@ export class MlpGaussianPolicy implements StochasticPolicy {
     const sizes = this.sizes;
     const L = sizes.length - 1;
     const act = this.act;
-    for (let i = 0; i < sizes[0]; i++) act[i] = x[xo + i];
+    const off = this.inOffset;
+    const isc = this.inScale;
+    for (let i = 0; i < sizes[0]; i++) act[i] = (x[xo + i] - off[i]) * isc[i];
     for (let l = 0; l < L; l++) {
       const fin = sizes[l];
       const fout = sizes[l + 1];
@@ -413,5 +433,21 @@ export function mlpGaussianPolicy(options: MlpGaussianPolicyOptions): MlpGaussia
   if (typeof seed !== "number" && typeof seed !== "string") {
     throw new RecedeError("type", fn, "seed", "a number or a string", seed);
   }
-  return new MlpGaussianPolicy([n, ...hidden, m], std, outScale, seed);
+  const offset = new Float64Array(n);
+  const inv = new Float64Array(n).fill(1);
+  if (options.stateOffset !== undefined) {
+    if (options.stateOffset.length !== n) {
+      throw new RecedeError("dimension", fn, "stateOffset", `of length ${n}`, options.stateOffset);
+    }
+    for (let i = 0; i < n; i++)
+      offset[i] = requireFinite(fn, `stateOffset[${i}]`, options.stateOffset[i]);
+  }
+  if (options.stateScale !== undefined) {
+    if (options.stateScale.length !== n) {
+      throw new RecedeError("dimension", fn, "stateScale", `of length ${n}`, options.stateScale);
+    }
+    for (let i = 0; i < n; i++)
+      inv[i] = 1 / requirePositive(fn, `stateScale[${i}]`, options.stateScale[i]);
+  }
+  return new MlpGaussianPolicy([n, ...hidden, m], std, outScale, seed, offset, inv);
 }

@@ -31,6 +31,16 @@ const families: Family[] = [
     name: "mlp-gaussian",
     policy: mlpGaussianPolicy({ stateSize: 3, actionSize: 2, hidden: [5, 4], outputScale: 1 }),
   },
+  {
+    name: "mlp-gaussian (input normalization)",
+    policy: mlpGaussianPolicy({
+      stateSize: 2,
+      actionSize: 1,
+      hidden: [3],
+      stateOffset: [0.5, -1],
+      stateScale: [2, 0.5],
+    }),
+  },
   { name: "softmax", policy: softmaxPolicy({ stateSize: 3, actionCount: 4 }) },
 ];
 

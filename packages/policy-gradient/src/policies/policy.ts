@@ -118,8 +118,23 @@ export interface StochasticPolicy {
   ): number;
 }
 
-/** Anything that maps a state to an action: a deployed policy, an MPC controller, a human. */
+/**
+ * What an actor returns: the control vector itself, or a record holding it in `control` (the
+ * shape of an MPC controller's step, `{ control, report }`).
+ */
+export type ActorOutput = ArrayLike<number> | { readonly control: ArrayLike<number> };
+
+/**
+ * Anything that maps a state to a control: a deployed policy, an MPC controller of `@recede/mpc`
+ * (its `act` returns `{ control, report }`), an LQR gain, a human interface.
+ */
 export interface Actor {
-  /** The action for `state` (a control vector; for discrete problems, a control vector too). */
-  act(state: Float64Array): ArrayLike<number>;
+  /** The control for `state` (also for discrete problems: a control vector). */
+  act(state: Float64Array): ActorOutput;
+}
+
+/** The control vector of an {@link ActorOutput}. */
+export function controlOf(out: ActorOutput): ArrayLike<number> {
+  const c = (out as { control?: ArrayLike<number> }).control;
+  return c !== undefined ? c : (out as ArrayLike<number>);
 }

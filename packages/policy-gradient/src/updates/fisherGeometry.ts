@@ -229,8 +229,9 @@ export class FisherGeometry implements PreparableGeometry {
  * prepared parameters θ_k and states, so the mirror step is the natural-gradient step
  *   θ⁺ = θ_k − η (F(θ_k) + ζ I)⁻¹ g,
  * solved matrix-free by conjugate gradient with the family's analytic Fisher-vector products.
- * D(θ‖θ_k) = ½ (θ − θ_k)ᵀ F (θ − θ_k) is the second-order expansion of the mean
- * KL(π_{θ_k} ‖ π_θ) (MATH.md §2.4, §5.3). Symbols ↔ options: ζ ↔ `damping`.
+ * D(θ‖θ_k) = ½ (θ − θ_k)ᵀ (F + ζI) (θ − θ_k); with ζ = 0 it is the second-order expansion of the
+ * mean KL(π_{θ_k} ‖ π_θ) (MATH.md §2.4, §5.3). Symbols ↔ options: ζ ↔ `damping`. The states are
+ * held by reference until the next `prepare` (batches larger than `maxStates` are copied).
  *
  * Sources: S. Kakade, "A Natural Policy Gradient", NIPS 14, 2001; S. Amari, "Natural Gradient
  * Works Efficiently in Learning", Neural Computation, 1998; the damped CG solve as in

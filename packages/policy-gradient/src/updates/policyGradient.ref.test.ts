@@ -54,7 +54,7 @@ const policy = linearGaussianPolicy({
 
 describe("policy gradient on the double integrator converges to the discounted DARE gain", () => {
   // Measured after 60 rounds (relative error ‖K − K*‖/‖K*‖): natural PG 0.2%, KL trust region 0.1%,
-  // vanilla PG 23% (K = [1.11, 2.02] vs K* = [1.368, 2.704]).
+  // vanilla PG about 24% (K = [1.11, 2.02] vs K* = [1.368, 2.704]).
   let npgErr = Number.NaN;
 
   it("natural policy gradient (Fisher geometry, constant step η = 0.05)", () => {

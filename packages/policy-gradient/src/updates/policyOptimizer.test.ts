@@ -2,6 +2,7 @@ import { createStream, mahalanobis, RecedeError } from "@recede/core";
 import {
   environmentFromProblem,
   fisherGeometry,
+  gae,
   linearGaussianPolicy,
   mlpGaussianPolicy,
   policyActor,
@@ -10,6 +11,7 @@ import {
   type ScoredSamples,
   softmaxPolicy,
   surrogateLoss,
+  trainPolicy,
 } from "@recede/policy-gradient";
 import { doubleIntegrator } from "@recede/problems";
 import { catchRecedeError } from "@recede/testkit";
@@ -60,6 +62,33 @@ describe("policyOptimizer: the update is the geometry's mirror step", () => {
       expect(opt.decision()[i]).toBeCloseTo(theta[i] - 0.03 * g[i], 14);
     expect(opt.round).toBe(1);
     expect(opt.lastReport?.surrogate).toBeCloseTo(L, 14);
+  });
+
+  it("a user-supplied geometry plugs in: a core Mahalanobis metric M gives θ⁺ = θ − η M⁻¹ ∇L(θ)", () => {
+    const pi = linearGaussianPolicy({
+      stateSize: 2,
+      actionSize: 1,
+      initialGain: [[1, 1.5]],
+      initialStd: 0.5,
+    });
+    const M = [
+      [4, 0, 0, 0],
+      [0, 2, 0, 0],
+      [0, 0, 1, 0],
+      [0, 0, 0, 8],
+    ];
+    const opt = policyOptimizer({
+      policy: pi,
+      geometry: mahalanobis({ metric: M }),
+      stepSize: 0.1,
+    });
+    const theta = opt.decision().slice();
+    const s = batchFor(pi, theta, 2);
+    const g = new Float64Array(4);
+    surrogateLoss(pi, theta, s, g);
+    opt.update({ samples: s });
+    for (let i = 0; i < 4; i++)
+      expect(opt.decision()[i]).toBeCloseTo(theta[i] - (0.1 * g[i]) / M[i][i], 14);
   });
 
   it("Fisher geometry = core Mahalanobis geometry with the dense damped Fisher matrix as metric", () => {
@@ -193,6 +222,23 @@ describe("policyOptimizer: failures and state", () => {
     expect(Array.from(opt.decision())).toEqual(Array.from(pi.initialParameters()));
   });
 
+  it("same seeds → bit-identical parameter traces (collection, GAE fit, CG, line search)", () => {
+    const run = () => {
+      const opt = policyOptimizer({ policy: pi, geometry: "fisher", trustRegion: true });
+      const est = gae({ discount: 0.95 });
+      const b = env.createBatch(10);
+      const st = createStream(21);
+      const trace: number[] = [];
+      for (let k = 0; k < 5; k++) {
+        env.collect(pi, opt.decision(), st, b);
+        opt.update({ samples: est.score(b) });
+        trace.push(...opt.decision());
+      }
+      return trace;
+    };
+    expect(run()).toEqual(run());
+  });
+
   it("observers receive one record per round with the played θ", () => {
     const opt = policyOptimizer({ policy: pi, stepSize: 0.01 });
     const seen: number[][] = [];
@@ -226,6 +272,46 @@ describe("policyOptimizer: failures and state", () => {
     catchRecedeError(
       () => geo.step(new Float64Array(4), new Float64Array(4), 1, new Float64Array(4)),
       { code: "state" },
+    );
+  });
+});
+
+describe("trainPolicy", () => {
+  it("runs the collect–score–step loop deterministically and lowers the cost", () => {
+    const pi = linearGaussianPolicy({
+      stateSize: 2,
+      actionSize: 1,
+      initialGain: [[0.5, 0.5]],
+      initialStd: 0.5,
+    });
+    const run = () =>
+      trainPolicy({
+        environment: env,
+        optimizer: policyOptimizer({
+          policy: pi,
+          geometry: "fisher",
+          trustRegion: { radius: 0.05 },
+        }),
+        estimator: gae({ discount: 0.95 }),
+        rounds: 15,
+        episodesPerRound: 40,
+        seed: 5,
+      });
+    const a = run();
+    const b = run();
+    expect(Array.from(a.parameters)).toEqual(Array.from(b.parameters));
+    expect(a.rounds).toHaveLength(15);
+    expect(a.rounds[14].meanCost).toBeLessThan(a.rounds[0].meanCost);
+    catchRecedeError(
+      () =>
+        trainPolicy({
+          environment: env,
+          optimizer: {} as never,
+          estimator: gae(),
+          rounds: 1,
+          episodesPerRound: 1,
+        }),
+      { fn: "trainPolicy", arg: "optimizer" },
     );
   });
 });
