@@ -130,6 +130,18 @@ describe("runSweep", () => {
     ).toBe(a);
   });
 
+  it("checks every entry against the built problem before running, naming the field", async () => {
+    const raw = structuredClone(source.raw) as { optimizers: Record<string, unknown>[] };
+    raw.optimizers[0].noise = [1, 2, 3];
+    const dir = fresh();
+    await expect(
+      runSweep({ raw, dir: source.dir }, { outDir: dir, workers: 1, progress: quiet }),
+    ).rejects.toThrow(
+      /^optimizers\[0\]\.noise: on problem "double-integrator": mppi: noise must be of length 1/,
+    );
+    expect(existsSync(join(dir, "results.jsonl"))).toBe(false);
+  });
+
   it("worker threads give the same results as one thread", async () => {
     const out = await runSweep(source, { outDir: fresh(), workers: 2, progress: quiet });
     expect(out.executed).toBe(TOTAL);

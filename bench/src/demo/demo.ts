@@ -173,7 +173,11 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
             ],
             [
               "Cost",
-              `per step ${DRONE_WEIGHTS.position}·p_x² + ${DRONE_WEIGHTS.height}·p_z² + ${DRONE_WEIGHTS.tilt}·θ² + ${DRONE_WEIGHTS.velocity}·‖v‖² + ${DRONE_WEIGHTS.rate}·ω² + ${DRONE_WEIGHTS.thrust}·‖u − u_hover‖² + ${DRONE_WEIGHTS.envelope}·(descent faster than 0.3 + 0.5·p_z m/s)²; terminal ${DRONE_WEIGHTS.terminal}× the state part.`,
+              `per step ${DRONE_WEIGHTS.position}·p_x² + ${DRONE_WEIGHTS.height}·(p_z + ${-DRONE_WEIGHTS.aimHeight})² + ${DRONE_WEIGHTS.tilt}·θ² + ${DRONE_WEIGHTS.velocity}·‖v‖² + ${DRONE_WEIGHTS.rate}·ω² + ${DRONE_WEIGHTS.thrust}·‖u − u_hover‖² + ${DRONE_WEIGHTS.envelope}·(descent faster than 0.3 + 0.5·p_z m/s)² + ${DRONE_WEIGHTS.cone}·(|p_x| beyond 0.2 + 0.6·p_z m)² + ${DRONE_WEIGHTS.airborne} while airborne; terminal ${DRONE_WEIGHTS.terminal}× the state part. The cost aims ${-DRONE_WEIGHTS.aimHeight} m below the roof so that touching down is what it asks for.`,
+            ],
+            [
+              "Reading the table",
+              "Success counts episodes that met all landing thresholds. Miss distance, touchdown speed, touchdown tilt and landing time are averaged over the seeds that landed (so their intervals can rest on few seeds); 'share landed' counts any touchdown. Compute times are wall-clock on the machine named below, with runs sharing its cores.",
             ],
           ],
         },
@@ -199,10 +203,23 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
   };
 }
 
+const KIND_TEXT: Readonly<Record<string, string>> = {
+  mppi: "MPPI (Williams et al. 2017): exponential-utility weights of sampled thrust sequences, γ = 1, fixed sampling noise.",
+  cem: "Cross-entropy method (Rubinstein 1999): refit mean and variance to the elite samples, several iterations per step.",
+  variant:
+    "A variant derived from the generic controller: MPPI's loss with a partial mirror step γ < 1 and the sampling covariance adapted by the same step.",
+  lqr: "LQR about hover at the pad: the DARE gain of the model linearized there, with the quadratic part of the cost; it does not see the descent envelope or the thrust limits.",
+  distilled:
+    "An affine policy u = Kx + b distilled from the MPPI expert by DAgger (Ross, Gordon & Bagnell 2011) on the wind-free model, trained per seed; flying it costs one matrix-vector product per step.",
+};
+
 function describeOptimizers(raw: Record<string, unknown>): [string, string][] {
   const list = raw.optimizers as Record<string, unknown>[];
   return list.map((o) => {
     const { label, kind, ...rest } = o;
-    return [String(label), `kind "${kind}", ${JSON.stringify(rest)}`];
+    return [
+      String(label),
+      `${KIND_TEXT[String(kind)] ?? ""} Sweep entry: kind "${kind}", ${JSON.stringify(rest)}.`,
+    ];
   });
 }

@@ -80,8 +80,8 @@ function noiseOf(params: ParamValues, problem: BenchProblem, kind: string): Floa
       "dimension",
       kind,
       "noise",
-      `of length ${m} (one entry per control of ${problem.id}); given length`,
-      v.length,
+      `of length ${m} (one entry per control of ${problem.id})`,
+      v,
     );
   return Float64Array.from(v);
 }

@@ -16,7 +16,7 @@
  * 2. Per-round cost: `record` on synthetic rounds (d = 40, linear comparator over a box, two
  *    experts, adaptive window 100) in each history mode, ns per round.
  * 3. Allocation: heap growth over 10⁶ summary-mode rounds after a forced GC, with no GC in
- *    between (the GC hook is obtained at run time through V8's `--expose-gc` flag; null if that
+ *    between (smallest of three trials) (the GC hook is obtained at run time through V8's `--expose-gc` flag; null if that
  *    fails).
  *
  * @module
@@ -247,7 +247,7 @@ function perRound(ctx: SuiteContext, rounds: number): Record<string, number> {
 function allocation(
   ctx: SuiteContext,
   rounds: number,
-): { heapGrowthBytes: number | null; rounds: number } {
+): { heapGrowthBytes: number | null; rounds: number; trials?: number[] } {
   let gc = (globalThis as { gc?: () => void }).gc;
   if (typeof gc !== "function") {
     try {
@@ -263,17 +263,25 @@ function allocation(
   }
   const d = 40;
   const tr = syntheticTracker("summary", d);
-  feed(tr, 10_000, d, 3);
-  gc();
-  const before = process.memoryUsage().heapUsed;
-  feed(tr, rounds, d, 4);
-  const after = process.memoryUsage().heapUsed; // no GC in between: growth = what was allocated and kept
-  gc();
-  const settled = process.memoryUsage().heapUsed;
+  feed(tr, 50_000, d, 3);
+  // Three trials; the smallest growth is reported (background compilation and GC bookkeeping of
+  // the rest of the process can only add to it).
+  const growth: number[] = [];
+  let settled = 0;
+  for (let trial = 0; trial < 3; trial++) {
+    gc();
+    const before = process.memoryUsage().heapUsed;
+    feed(tr, rounds, d, 4 + trial);
+    const after = process.memoryUsage().heapUsed; // no GC in between: growth = allocated bytes
+    growth.push(after - before);
+    gc();
+    settled = process.memoryUsage().heapUsed - before;
+  }
+  const min = Math.min(...growth);
   ctx.log(
-    `allocation over ${rounds} summary-mode rounds: heap +${after - before} B before GC, +${settled - before} B after`,
+    `allocation over ${rounds} summary-mode rounds: heap +${growth.join(", +")} B in three trials (min ${min}); ${settled} B after GC`,
   );
-  return { heapGrowthBytes: after - before, rounds };
+  return { heapGrowthBytes: min, rounds, trials: growth };
 }
 
 export const suite: Suite = {

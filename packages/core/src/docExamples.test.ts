@@ -15,6 +15,7 @@ const files = [
   "learners/mirrorDescent.ts",
   "learners/dynamicMirrorDescent.ts",
   "learners/fixedShare.ts",
+  "learners/affineDynamic.ts",
   "matrixInput.ts",
 ];
 
@@ -48,6 +49,6 @@ describe("doc examples run", () => {
     });
   }
   it("found the examples", () => {
-    expect(total).toBe(17);
+    expect(total).toBe(18);
   });
 });

@@ -53,6 +53,7 @@ export {
 } from "./errors.js";
 export type { VectorInput } from "./internal/vectorInput.js";
 export * as kernels from "./kernels/index.js";
+export { type AffineDynamicOptions, affineDynamic } from "./learners/affineDynamic.js";
 export {
   type DynamicMirrorDescentOptions,
   type DynamicStep,

@@ -719,19 +719,21 @@ export class RegretTracker {
     if (g !== undefined) {
       let s2 = 0;
       let sinf = 0;
+      let gx = 0;
       for (let i = 0; i < d; i++) {
         const v = g[i];
         if (!Number.isFinite(v)) {
           throw new RecedeError("non-finite", fn, `gradient[${i}]`, "finite", v);
         }
         s2 += v * v;
+        gx += v * x[i];
         const a = Math.abs(v);
         if (a > sinf) sinf = a;
       }
       this.stGrad = true;
       st[S_G2] = s2;
       st[S_GINF2] = sinf * sinf;
-      st[S_GX] = kernels.dot(d, g, 0, x, 0);
+      st[S_GX] = gx;
       if (lossFromGradient) st[S_LOSS] = st[S_GX];
       if (this.linearOn) kernels.copy(d, g, 0, st, this.oG);
     }

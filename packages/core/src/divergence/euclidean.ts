@@ -89,8 +89,8 @@ const FN = "euclidean";
  * The Euclidean geometry on ℝᵈ, optionally restricted to a ball, a box or a scaled simplex.
  *
  * ψ(x) = ½‖x‖², D(x‖y) = ½‖x − y‖², ∇ψ = ∇ψ* = identity on ℝᵈ (the projection belongs to the
- * step), and the mirror step is online (projected)
- * gradient descent:  x⁺ = Π_X(x_t − η g),  with Π_X the Euclidean projection
+ * step), and the mirror step is online (projected) gradient descent:  x⁺ = Π_X(x_t − η g),  with
+ * Π_X the Euclidean projection
  * (ball: c + (x − c)·min(1, r/‖x − c‖); box: clamp each coordinate; simplex: xᵢ = max(vᵢ − τ, 0)
  * with the threshold τ found by sorting, O(d log d) — Duchi, Shalev-Shwartz, Singer & Chandra,
  * "Efficient Projections onto the ℓ1-Ball for Learning in High Dimensions", ICML, 2008).

@@ -1,5 +1,6 @@
 import {
   adaGradStep,
+  affineDynamic,
   constantStep,
   dynamicMirrorDescent,
   entropy,
@@ -11,6 +12,7 @@ import {
   scheduledStep,
 } from "@recede/core";
 import { catchRecedeError } from "@recede/testkit";
+import ndarray from "ndarray";
 import { describe, expect, it } from "vitest";
 
 const g = (...v: number[]) => Float64Array.from(v);
@@ -358,6 +360,61 @@ describe("dynamicMirrorDescent", () => {
     l.update({ gradient: g(0) });
     expect(l.decision()[0]).toBeCloseTo(0.7, 15);
     expect(rounds).toEqual([1, 2]);
+  });
+
+  it("affineDynamic applies A x + b (ndarray or rows), bit for bit like a hand-written Φ", () => {
+    const A = [
+      [0.9, -0.2],
+      [0.3, 0.8],
+    ];
+    const b = [0.05, -0.1];
+    const hand = dynamicMirrorDescent({
+      geometry: euclidean({ dimension: 2 }),
+      initial: [1, 2],
+      stepSize: 0.3,
+      dynamic: (x, _t, out) => {
+        out[0] = b[0] + A[0][0] * x[0] + A[0][1] * x[1];
+        out[1] = b[1] + A[1][0] * x[0] + A[1][1] * x[1];
+      },
+    });
+    const viaNd = dynamicMirrorDescent({
+      geometry: euclidean({ dimension: 2 }),
+      initial: [1, 2],
+      stepSize: 0.3,
+      dynamic: affineDynamic({
+        matrix: ndarray(new Float64Array([0.9, 0.3, -0.2, 0.8]), [2, 2]).transpose(1, 0),
+        offset: b,
+      }),
+    });
+    for (const gr of [g(1, 0), g(-0.5, 2), g(0, 0)]) {
+      hand.update({ gradient: gr });
+      viaNd.update({ gradient: gr });
+      expect(Array.from(viaNd.decision())).toEqual(Array.from(hand.decision()));
+    }
+    const fn = "affineDynamic";
+    catchRecedeError(() => affineDynamic({ matrix: [[1, 2, 3]] }), {
+      code: "dimension",
+      fn,
+      arg: "matrix",
+    });
+    catchRecedeError(() => affineDynamic({ matrix: A, offset: [1] }), {
+      code: "dimension",
+      fn,
+      arg: "offset",
+    });
+    catchRecedeError(() => affineDynamic(undefined as never), { code: "type", fn, arg: "options" });
+    const wrongSize = dynamicMirrorDescent({
+      geometry: euclidean({ dimension: 3 }),
+      initial: [0, 0, 0],
+      stepSize: 1,
+      dynamic: affineDynamic({ matrix: A }),
+    });
+    catchRecedeError(() => wrongSize.update({ gradient: g(1, 1, 1) }), {
+      code: "dimension",
+      fn,
+      arg: "x",
+    });
+    expect(wrongSize.round).toBe(0);
   });
 
   it("a Φ that throws, forgets to write, or leaves the domain fails with the state untouched", () => {

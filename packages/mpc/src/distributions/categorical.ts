@@ -132,6 +132,8 @@ class CategoricalPlan implements PlanDistribution {
   private readonly actions: Int32Array;
   private readonly probs: Float64Array;
   private readonly target: Float64Array;
+  /** Uniforms of the slice being sampled, at k·H + t. */
+  private readonly uniforms: Float64Array;
 
   constructor(
     readonly horizon: number,
@@ -145,6 +147,7 @@ class CategoricalPlan implements PlanDistribution {
     this.probs = new Float64Array(initial);
     this.target = new Float64Array(horizon * count);
     this.actions = new Int32Array(samples * horizon);
+    this.uniforms = new Float64Array(samples * horizon);
     this.mean = new Float64Array(horizon * controlSize);
     this.blocks = [{ role: "mean", width: count, data: this.probs, initial, zeroAllowed: false }];
     this.sync();
@@ -156,9 +159,11 @@ class CategoricalPlan implements PlanDistribution {
     const c = this.count;
     const p = this.probs;
     const choices = this.choices;
+    const uni = this.uniforms;
+    stream.fillUniform(uni, first * h, count * h);
     for (let k = first; k < first + count; k++) {
       for (let t = 0; t < h; t++) {
-        const u = stream.uniform();
+        const u = uni[k * h + t];
         let a = 0;
         let acc = p[t * c];
         while (a < c - 1 && !(u < acc)) {
@@ -185,7 +190,7 @@ class CategoricalPlan implements PlanDistribution {
     const c = this.count;
     const tgt = this.target;
     const p = this.probs;
-    tgt.fill(0);
+    for (let i = 0; i < h * c; i++) tgt[i] = 0;
     let wsum = 0;
     for (let k = 0; k < count; k++) {
       const w = weights[k];

@@ -142,7 +142,8 @@ class GaussianPlan implements PlanDistribution {
   private readonly targetMean: Float64Array;
   private readonly targetVar: Float64Array;
   private readonly len: number;
-  private readonly minVar: number;
+  /** σ_min² in a one-element array, so hot loops load it as a raw double (no boxing). */
+  private readonly minVar: Float64Array;
   private readonly innovation: number;
 
   constructor(
@@ -165,7 +166,7 @@ class GaussianPlan implements PlanDistribution {
     this.std = new Float64Array(initialStd);
     this.targetMean = new Float64Array(len);
     this.targetVar = new Float64Array(len);
-    this.minVar = minStd * minStd;
+    this.minVar = Float64Array.of(minStd * minStd);
     this.innovation = Math.sqrt(1 - correlation * correlation);
     this.blocks = [
       {
@@ -275,10 +276,10 @@ class GaussianPlan implements PlanDistribution {
   sync(): void {
     const v = this.variance;
     const s = this.std;
-    const floor = this.minVar;
+    const floor = this.minVar[0];
     for (let p = 0; p < this.len; p++) {
-      let x = v[p];
-      if (!(x >= floor)) x = floor; // also catches NaN
+      const y = v[p];
+      const x = y >= floor ? y : floor; // also catches NaN
       v[p] = x;
       s[p] = Math.sqrt(x);
     }

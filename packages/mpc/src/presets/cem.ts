@@ -50,6 +50,8 @@ export interface CemOptions {
   readonly seed?: number | string;
   /** Samples per random-stream slice. @defaultValue 64 */
   readonly sliceSize?: number;
+  /** Measure `report.wallTimeMs` (two clock reads per step; see ControllerParts.timing). @defaultValue true */
+  readonly timing?: boolean;
 }
 
 /**
@@ -94,5 +96,6 @@ export function cem(options: CemOptions): Controller {
     bounds: options.bounds,
     seed: options.seed,
     sliceSize: options.sliceSize,
+    timing: options.timing,
   });
 }

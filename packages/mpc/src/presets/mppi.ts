@@ -40,6 +40,8 @@ export interface MppiOptions {
   readonly seed?: number | string;
   /** Samples per random-stream slice. @defaultValue 64 */
   readonly sliceSize?: number;
+  /** Measure `report.wallTimeMs` (two clock reads per step; see ControllerParts.timing). @defaultValue true */
+  readonly timing?: boolean;
 }
 
 /**
@@ -80,5 +82,6 @@ export function mppi(options: MppiOptions): Controller {
     bounds: options.bounds,
     seed: options.seed,
     sliceSize: options.sliceSize,
+    timing: options.timing,
   });
 }

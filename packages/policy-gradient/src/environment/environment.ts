@@ -74,7 +74,17 @@ export interface RolloutEnvironmentOptions {
    * @defaultValue none (continuous actions are the controls)
    */
   readonly controls?: MatrixInput;
+  /**
+   * Early termination: called on the state after every step (`states[offset ..]`); when it
+   * returns true the episode ends there — the terminal cost is charged at that state and the
+   * remaining steps are padding (see {@link EpisodeBatch}).
+   * @defaultValue none (every episode runs T steps)
+   */
+  readonly terminate?: TerminationTest;
 }
+
+/** Whether the state at `states[offset ..]` ends the episode. */
+export type TerminationTest = (states: Float64Array, offset: number) => boolean;
 
 /** Closed-loop costs of a deterministic actor over several episodes. */
 export interface Evaluation {
@@ -134,6 +144,8 @@ export class RolloutEnvironment {
   private readonly sampler: InitialStateSampler | null;
   private readonly wStd: Float64Array;
   private readonly hasDisturbance: boolean;
+  /** The early-termination test, or null. */
+  readonly terminate: TerminationTest | null;
 
   /** Use {@link rolloutEnvironment}; the constructor trusts validated options. */
   constructor(
@@ -147,7 +159,9 @@ export class RolloutEnvironment {
     sampler: InitialStateSampler | null,
     wStd: Float64Array,
     table: Float64Array | null,
+    terminate: TerminationTest | null = null,
   ) {
+    this.terminate = terminate;
     this.dynamics = dynamics;
     this.cost = cost;
     this.stateSize = dynamics.stateSize;
@@ -230,24 +244,67 @@ export class RolloutEnvironment {
     const x = new Float64Array(E * n);
     const u = new Float64Array(E * m);
     const c = new Float64Array(E);
+    const term = this.terminate;
+    const alive = new Uint8Array(E).fill(1);
+    let living = E;
+    batch.lengths.fill(T);
+    batch.terminated.fill(0);
     for (let e = 0; e < E; e++) this.sampleInitialState(stream, x, e * n);
     for (let t = 0; t < T; t++) {
       for (let e = 0; e < E; e++) {
         const i = e * T + t;
         for (let k = 0; k < n; k++) batch.states[i * n + k] = x[e * n + k];
-        batch.logProbs[i] = decider.decide(e, t, batch.states, i * n, batch.actions, i * a, stream);
-        this.toControl(batch.actions, i * a, u, e * m);
+        if (alive[e] === 1) {
+          batch.logProbs[i] = decider.decide(
+            e,
+            t,
+            batch.states,
+            i * n,
+            batch.actions,
+            i * a,
+            stream,
+          );
+          this.toControl(batch.actions, i * a, u, e * m);
+        } else {
+          batch.logProbs[i] = 0;
+          for (let j = 0; j < a; j++) batch.actions[i * a + j] = 0;
+          for (let j = 0; j < m; j++) u[e * m + j] = 0;
+        }
         for (let j = 0; j < m; j++) batch.controls[i * m + j] = u[e * m + j];
       }
       c.fill(0);
       this.cost.running(x, 0, u, 0, E, t, c, 0);
-      for (let e = 0; e < E; e++) batch.costs[e * T + t] = c[e];
+      for (let e = 0; e < E; e++) batch.costs[e * T + t] = alive[e] === 1 ? c[e] : 0;
+      if (living < E) {
+        // Freeze ended episodes: remember their state, step the batch, put it back.
+        for (let e = 0; e < E; e++) {
+          if (alive[e] === 0)
+            for (let k = 0; k < n; k++) batch.finalStates[e * n + k] = x[e * n + k];
+        }
+      }
       this.dynamics.step(x, 0, u, 0, E, t);
       if (this.hasDisturbance) {
         for (let e = 0; e < E; e++) {
           for (let k = 0; k < n; k++) {
             const s = this.wStd[k];
             if (s > 0) x[e * n + k] += s * stream.normal();
+          }
+        }
+      }
+      if (living < E) {
+        for (let e = 0; e < E; e++) {
+          if (alive[e] === 0)
+            for (let k = 0; k < n; k++) x[e * n + k] = batch.finalStates[e * n + k];
+        }
+      }
+      if (term !== null) {
+        for (let e = 0; e < E; e++) {
+          if (alive[e] === 1 && term(x, e * n)) {
+            alive[e] = 0;
+            living--;
+            batch.lengths[e] = t + 1;
+            batch.terminated[e] = 1;
+            for (let k = 0; k < n; k++) batch.finalStates[e * n + k] = x[e * n + k];
           }
         }
       }
@@ -384,6 +441,7 @@ export class RolloutEnvironment {
       this.sampler,
       this.wStd,
       null,
+      this.terminate,
     );
   }
 
@@ -483,6 +541,16 @@ export function rolloutEnvironment(options: RolloutEnvironmentOptions): RolloutE
       throw new RecedeError("dimension", fn, "controls", "at least 2 rows", `${t.rows} rows`);
     table = t.data;
   }
+  const terminate = options.terminate ?? null;
+  if (terminate !== null && typeof terminate !== "function") {
+    throw new RecedeError(
+      "type",
+      fn,
+      "terminate",
+      "a function (states, offset) => boolean",
+      terminate,
+    );
+  }
   return new RolloutEnvironment(
     dynamics,
     cost,
@@ -494,6 +562,7 @@ export function rolloutEnvironment(options: RolloutEnvironmentOptions): RolloutE
     sampler,
     wStd,
     table,
+    terminate,
   );
 }
 
@@ -515,6 +584,8 @@ export interface ProblemEnvironmentOptions {
   readonly disturbanceStd?: number | Float64Array;
   /** See {@link RolloutEnvironmentOptions.controls}. @defaultValue none */
   readonly controls?: MatrixInput;
+  /** See {@link RolloutEnvironmentOptions.terminate}. @defaultValue none */
+  readonly terminate?: TerminationTest;
 }
 
 /**
@@ -546,5 +617,6 @@ export function environmentFromProblem(
     initialStateStd: options.initialStateStd,
     disturbanceStd: options.disturbanceStd,
     controls: options.controls,
+    terminate: options.terminate,
   });
 }

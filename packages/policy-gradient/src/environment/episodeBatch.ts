@@ -13,6 +13,9 @@
  * record at `actions[i·a ..]`, the control actually applied (mapped, clipped) at `controls[i·m ..]`,
  * the running cost c_t at `costs[i]`, ln π_behaviour(a_t | s_t) at `logProbs[i]`; the state after
  * the last step at `finalStates[e·n ..]` and its terminal cost at `terminalCosts[e]`.
+ * An episode that the environment's `terminate` test ended early has `lengths[e] < T` and
+ * `terminated[e] = 1`; its steps t ≥ lengths[e] are padding (zero cost, zero action, the final
+ * state repeated) that estimators skip.
  */
 export class EpisodeBatch {
   /** Number of episodes E. */
@@ -37,8 +40,12 @@ export class EpisodeBatch {
   readonly logProbs: Float64Array;
   /** E·n states after the last step. */
   readonly finalStates: Float64Array;
-  /** E terminal costs c_H(x_T). */
+  /** E terminal costs c_H(x_T) (at the terminating state for an episode that ended early). */
   readonly terminalCosts: Float64Array;
+  /** E episode lengths (T unless the episode terminated early). */
+  readonly lengths: Int32Array;
+  /** E flags: 1 when the episode ended by the environment's `terminate` test. */
+  readonly terminated: Uint8Array;
 
   constructor(episodes: number, horizon: number, n: number, a: number, m: number) {
     this.episodes = episodes;
@@ -54,6 +61,14 @@ export class EpisodeBatch {
     this.logProbs = new Float64Array(s);
     this.finalStates = new Float64Array(episodes * n);
     this.terminalCosts = new Float64Array(episodes);
+    this.lengths = new Int32Array(episodes).fill(horizon);
+    this.terminated = new Uint8Array(episodes);
+  }
+
+  /** True when every episode ran the full horizon. */
+  get complete(): boolean {
+    for (let e = 0; e < this.episodes; e++) if (this.lengths[e] !== this.horizon) return false;
+    return true;
   }
 
   /** Number of samples E·T. */

@@ -212,3 +212,47 @@ describe("rollout environment", () => {
     catchRecedeError(() => reinforce({ discount: 0 }), { fn: "reinforce", arg: "discount" });
   });
 });
+
+describe("early termination", () => {
+  // Double integrator starting at p = 0.5 with velocity 1 and no control: the episode ends the
+  // first time |p| > 1.05 (after the step that takes it there).
+  const p = doubleIntegrator({ dt: 0.1 });
+  const env = environmentFromProblem(p, {
+    horizon: 20,
+    initialState: new Float64Array([0.5, 1]),
+    terminate: (x, o) => Math.abs(x[o]) > 1.05,
+  });
+  const idle = linearGaussianPolicy({ stateSize: 2, actionSize: 1, bias: false, initialStd: 1e-9 });
+
+  it("records the length, pads with zero cost and charges the terminal cost at the terminating state", () => {
+    const b = env.collect(idle, idle.initialParameters(), createStream(1), env.createBatch(2));
+    // p_t = 0.5 + 0.1 t (u ≈ 0): |p| > 1.05 first at t = 6 (after the 6th step) → length 6.
+    expect(Array.from(b.lengths)).toEqual([6, 6]);
+    expect(Array.from(b.terminated)).toEqual([1, 1]);
+    for (let t = 6; t < 20; t++) expect(b.costs[t]).toBe(0);
+    expect(b.finalStates[0]).toBeCloseTo(1.1, 6);
+    const c = new Float64Array(1);
+    p.cost.terminal(b.finalStates, 0, 1, c, 0);
+    expect(b.terminalCosts[0]).toBe(c[0]);
+    expect(b.complete).toBe(false);
+  });
+
+  it("estimators score only the active steps (compacted) and use no value beyond a termination", () => {
+    const b = env.collect(idle, idle.initialParameters(), createStream(1), env.createBatch(3));
+    const G = returnsToGo(b, 0.9, new Float64Array(b.sampleCount));
+    const s = reinforce({ discount: 0.9, baseline: "none", discountWeighting: false }).score(b);
+    expect(s.count).toBe(18);
+    expect(s.normalizer).toBe(3);
+    for (let t = 0; t < 6; t++) expect(s.weights[t]).toBeCloseTo(G[t], 12);
+    const zero: ValueModel = { stateSize: 2, predict: () => 0, fit: () => {}, reset: () => {} };
+    const a = gae({
+      discount: 0.9,
+      lambda: 1,
+      value: zero,
+      bootstrapAtHorizon: true,
+      discountWeighting: false,
+    }).score(b);
+    expect(a.count).toBe(18);
+    for (let t = 0; t < 6; t++) expect(a.weights[t]).toBeCloseTo(G[t], 12);
+  });
+});

@@ -5,6 +5,7 @@
  */
 import { RecedeError } from "@recede/core";
 import { EpisodeBatch } from "../environment/episodeBatch.js";
+import { CompactionScratch, scoredFromBatch } from "../internal/compact.js";
 import { requireUnitClosed, requireUnitHalfOpen } from "../internal/validate.js";
 import type { GradientEstimator } from "./reinforce.js";
 import type { ScoredSamples } from "./scoredSamples.js";
@@ -58,6 +59,9 @@ export class GaeEstimator implements GradientEstimator {
   private weights: Float64Array = new Float64Array(0);
   private targets: Float64Array = new Float64Array(0);
   private times: Int32Array = new Int32Array(0);
+  private ctimes: Int32Array = new Int32Array(0);
+  private readonly scratch: CompactionScratch = new CompactionScratch();
+  private readonly fitScratch: CompactionScratch = new CompactionScratch();
 
   /** Use {@link gae}; the constructor trusts validated options. */
   constructor(
@@ -79,7 +83,7 @@ export class GaeEstimator implements GradientEstimator {
     return this.valueModel;
   }
 
-  /** The advantages Â of the last scored batch (sample-major, length E·T). */
+  /** The advantages Â of the last scored batch (sample-major, length E·T; 0 on padding). */
   get lastAdvantages(): Float64Array {
     return this.advantages;
   }
@@ -116,13 +120,17 @@ export class GaeEstimator implements GradientEstimator {
     const A = this.advantages;
     const g = this.discount;
     const gl = g * this.lambda;
+    const L = batch.lengths;
     for (let i = 0; i < N; i++) v[i] = V.predict(batch.states, i * n, i % T);
     for (let e = 0; e < E; e++) {
-      // Value of the state after the last step: its terminal cost, plus V(x_T, T) on truncation.
+      // Value after the last step: its terminal cost, plus V(x_T, T) on a time-limit truncation
+      // (never after a true termination).
       let next = batch.terminalCosts[e];
-      if (this.bootstrapAtHorizon) next += V.predict(batch.finalStates, e * n, T);
+      if (this.bootstrapAtHorizon && batch.terminated[e] === 0)
+        next += V.predict(batch.finalStates, e * n, T);
       let adv = 0;
-      for (let t = T - 1; t >= 0; t--) {
+      for (let t = T - 1; t >= L[e]; t--) A[e * T + t] = 0;
+      for (let t = L[e] - 1; t >= 0; t--) {
         const i = e * T + t;
         const delta = batch.costs[i] + g * next - v[i];
         adv = delta + gl * adv;
@@ -131,7 +139,14 @@ export class GaeEstimator implements GradientEstimator {
       }
     }
     for (let i = 0; i < N; i++) this.targets[i] = A[i] + v[i];
-    V.fit(batch.states, this.times, this.targets, N);
+    if (batch.complete) V.fit(batch.states, this.times, this.targets, N);
+    else {
+      const c = scoredFromBatch(batch, this.targets, this.fitScratch);
+      let k = 0;
+      if (this.ctimes.length < c.count) this.ctimes = new Int32Array(c.count);
+      for (let e = 0; e < E; e++) for (let t = 0; t < L[e]; t++) this.ctimes[k++] = t;
+      V.fit(c.states, this.ctimes, c.weights, c.count);
+    }
     const w = this.weights;
     for (let e = 0; e < E; e++) {
       let d = 1;
@@ -141,14 +156,7 @@ export class GaeEstimator implements GradientEstimator {
         d *= g;
       }
     }
-    return {
-      count: N,
-      states: batch.states,
-      actions: batch.actions,
-      logProbs: batch.logProbs,
-      weights: w,
-      normalizer: E,
-    };
+    return scoredFromBatch(batch, w, this.scratch);
   }
 }
 

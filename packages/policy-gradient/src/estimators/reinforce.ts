@@ -6,13 +6,15 @@
  */
 import { RecedeError } from "@recede/core";
 import { EpisodeBatch } from "../environment/episodeBatch.js";
+import { CompactionScratch, scoredFromBatch } from "../internal/compact.js";
 import { requireUnitHalfOpen } from "../internal/validate.js";
 import type { ScoredSamples } from "./scoredSamples.js";
 import type { ValueModel } from "./valueFunction.js";
 
 /**
- * Discounted returns-to-go G_t = Σ_{k=t}^{T−1} γ^{k−t} c_k + γ^{T−t} c_H(x_T) for every sample of
- * `batch` (sample i = e·T + t), written into `out` (length E·T). Returns `out`.
+ * Discounted returns-to-go G_t = Σ_{k=t}^{L−1} γ^{k−t} c_k + γ^{L−t} c_H(x_L) for every sample of
+ * `batch` (sample i = e·T + t; L = the episode's length, T unless it terminated early), written
+ * into `out` (length E·T; padding steps get 0). Returns `out`.
  */
 export function returnsToGo(
   batch: EpisodeBatch,
@@ -21,8 +23,10 @@ export function returnsToGo(
 ): Float64Array {
   const T = batch.horizon;
   for (let e = 0; e < batch.episodes; e++) {
+    const L = batch.lengths[e];
+    for (let t = L; t < T; t++) out[e * T + t] = 0;
     let g = batch.terminalCosts[e];
-    for (let t = T - 1; t >= 0; t--) {
+    for (let t = L - 1; t >= 0; t--) {
       g = batch.costs[e * T + t] + discount * g;
       out[e * T + t] = g;
     }
@@ -73,6 +77,9 @@ export class ReinforceEstimator implements GradientEstimator {
   private returns: Float64Array = new Float64Array(0);
   private weights: Float64Array = new Float64Array(0);
   private times: Int32Array = new Int32Array(0);
+  private ctimes: Int32Array = new Int32Array(0);
+  private readonly scratch: CompactionScratch = new CompactionScratch();
+  private readonly fitScratch: CompactionScratch = new CompactionScratch();
 
   /** Use {@link reinforce}; the constructor trusts validated options. */
   constructor(
@@ -101,16 +108,29 @@ export class ReinforceEstimator implements GradientEstimator {
     const G = returnsToGo(batch, this.discount, this.returns);
     const w = this.weights;
     const base = this.baseline;
+    const L = batch.lengths;
     if (base === "mean" && E > 1) {
       for (let t = 0; t < T; t++) {
         let s = 0;
-        for (let e = 0; e < E; e++) s += G[e * T + t];
-        for (let e = 0; e < E; e++) w[e * T + t] = G[e * T + t] - (s - G[e * T + t]) / (E - 1);
+        let c = 0;
+        for (let e = 0; e < E; e++) {
+          if (t < L[e]) {
+            s += G[e * T + t];
+            c++;
+          }
+        }
+        for (let e = 0; e < E; e++) {
+          const i = e * T + t;
+          w[i] = t >= L[e] ? 0 : c > 1 ? G[i] - (s - G[i]) / (c - 1) : G[i];
+        }
       }
     } else if (typeof base === "object") {
       const n = batch.stateSize;
-      for (let i = 0; i < N; i++) w[i] = G[i] - base.predict(batch.states, i * n, i % T);
-      base.fit(batch.states, this.times, G, N);
+      for (let i = 0; i < N; i++)
+        w[i] = i % T < L[(i - (i % T)) / T] ? G[i] - base.predict(batch.states, i * n, i % T) : 0;
+      const fit = scoredFromBatch(batch, G, this.fitScratch);
+      if (batch.complete) base.fit(batch.states, this.times, G, N);
+      else base.fit(fit.states, this.compactTimes(batch), fit.weights, fit.count);
     } else w.set(G);
     if (this.discountWeighting && this.discount !== 1) {
       for (let e = 0; e < E; e++) {
@@ -121,14 +141,17 @@ export class ReinforceEstimator implements GradientEstimator {
         }
       }
     }
-    return {
-      count: N,
-      states: batch.states,
-      actions: batch.actions,
-      logProbs: batch.logProbs,
-      weights: w,
-      normalizer: E,
-    };
+    return scoredFromBatch(batch, w, this.scratch);
+  }
+
+  private compactTimes(batch: EpisodeBatch): Int32Array {
+    let N = 0;
+    for (let e = 0; e < batch.episodes; e++) N += batch.lengths[e];
+    if (this.ctimes.length < N) this.ctimes = new Int32Array(N);
+    let k = 0;
+    for (let e = 0; e < batch.episodes; e++)
+      for (let t = 0; t < batch.lengths[e]; t++) this.ctimes[k++] = t;
+    return this.ctimes;
   }
 }
 

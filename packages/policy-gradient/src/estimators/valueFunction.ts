@@ -25,7 +25,7 @@ export interface LinearValueFunctionOptions {
   readonly stateSize: number;
   /**
    * Episode length T used to scale time, τ = t/T.
-   * @defaultValue 1 (time features use t itself)
+   * @defaultValue none (then `timeFeatures` defaults to 0: a stationary V)
    */
   readonly horizon?: number;
   /**
@@ -35,7 +35,7 @@ export interface LinearValueFunctionOptions {
   readonly features?: "linear" | "quadratic";
   /**
    * Number of time features τ, τ², …, τᵏ appended (0 for a stationary V).
-   * @defaultValue 3
+   * @defaultValue 3 when `horizon` is given, else 0
    */
   readonly timeFeatures?: number;
   /**
@@ -176,7 +176,12 @@ export function linearValueFunction(options: LinearValueFunctionOptions): Linear
   if (features !== "linear" && features !== "quadratic") {
     throw new RecedeError("type", fn, "features", '"linear" or "quadratic"', features);
   }
-  const tf = requireInteger(fn, "timeFeatures", options.timeFeatures ?? 3, 0);
+  const tf = requireInteger(
+    fn,
+    "timeFeatures",
+    options.timeFeatures ?? (options.horizon === undefined ? 0 : 3),
+    0,
+  );
   const ridge = requireNonNegative(fn, "ridge", options.ridge ?? 1e-6);
   return new LinearValueFunction(n, features === "quadratic", tf, horizon, ridge);
 }

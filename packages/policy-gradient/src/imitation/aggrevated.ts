@@ -187,6 +187,15 @@ export function aggrevated(options: AggrevatedOptions): AggrevatedResult {
   }
   const policy = options.policy;
   env.checkPolicy(fn, policy);
+  if (env.terminate !== null) {
+    throw new RecedeError(
+      "type",
+      fn,
+      "environment",
+      "an environment without early termination (cost-to-go rollouts run to the horizon)",
+      "an environment with a terminate test",
+    );
+  }
   if (env.discreteControls !== null) {
     throw new RecedeError(
       "type",
