@@ -57,9 +57,32 @@ const CONFIG = {
   view: { stroke: "#ddd" },
 };
 
-/** Turn an optimizer label list into a stable colour domain (order of first appearance). */
-function colorScale(optimizers: readonly string[]): { domain: string[]; scheme: string } {
-  return { domain: [...optimizers], scheme: "tableau10" };
+/** The "tableau10" palette (vega's categorical scheme of that name). */
+const PALETTE = [
+  "#4c78a8",
+  "#f58518",
+  "#e45756",
+  "#72b7b2",
+  "#54a24b",
+  "#eeca3b",
+  "#b279a2",
+  "#ff9da6",
+  "#9d755d",
+  "#bab0ac",
+];
+
+/**
+ * Colours for `shown`, taken by each optimizer's place in `all`, so an optimizer keeps its colour
+ * in every chart of a report even when a chart shows only some optimizers.
+ */
+function colorScale(
+  all: readonly string[],
+  shown: readonly string[] = all,
+): { domain: string[]; range: string[] } {
+  return {
+    domain: [...shown],
+    range: shown.map((o) => PALETTE[Math.max(0, all.indexOf(o)) % PALETTE.length]),
+  };
 }
 
 /** Curve data with bands, subsampled to at most ~200 points per series. */
@@ -118,13 +141,14 @@ function bandChart(
   rows: Record<string, number | string>[],
   optimizers: readonly string[],
   xTitle: string,
+  shown: readonly string[] = optimizers,
 ): TopLevelSpec {
   const scale = curveScale(rows);
   const color = {
     field: "optimizer",
     type: "nominal" as const,
     title: "optimizer",
-    scale: colorScale(optimizers),
+    scale: colorScale(optimizers, shown),
   };
   const y = {
     type: "quantitative" as const,
@@ -211,6 +235,31 @@ function formatMs(v: number): string {
   if (v >= 0.1) return `${v.toFixed(2)} ms`;
   if (v >= 0.001) return `${(v * 1000).toFixed(0)} µs`;
   return "< 1 µs";
+}
+
+/** The learners' own tracked regret (see wrapController in optimizers/mpc.ts), mean with 95% band. */
+export async function trackedRegretChart(
+  problem: string,
+  groups: readonly GroupOutcome[],
+  dt: number,
+): Promise<Chart> {
+  const tracked = groups.filter((g) => g.trackedRegret && g.trackedRegret.length > 0);
+  const spec = bandChart(
+    `Tracked regret of the sampling controllers — ${problem}`,
+    "R_t = Σ_{s≤t} (loss estimated at the played plan − cost of the round's best sample)",
+    "tracked regret (cost units)",
+    curveRows(tracked, (g) => g.trackedRegret ?? [], dt),
+    groups.map((g) => g.optimizer),
+    "time (s)",
+    tracked.map((g) => g.optimizer),
+  );
+  return {
+    file: `tracked-regret-${problem}.svg`,
+    title: `Tracked regret — ${problem}`,
+    caption:
+      "Each sampling controller's own online-learning regret: at every control step, how much the loss at the plan it played exceeds the cost of the best sequence it sampled (dynamic regret against the per-round best sample). A flatter curve means the plan is closer to the best sampled sequence.",
+    svg: await renderSvg(spec),
+  };
 }
 
 /** Compute time per control step: median (bar) and 95th percentile (tick), per optimizer. */

@@ -2,7 +2,7 @@
 /**
  * `recede-bench`: the command line of bench/.
  *
- *   recede-bench sweep <sweep.json> [--out DIR] [--workers N] [--shard i/n] [--quick] [--trajectories]
+ *   recede-bench sweep <sweep.json> [--out DIR] [--workers N] [--shard i/n] [--quick] [--trajectories] [--plan]
  *   recede-bench merge <DIR>... --out DIR
  *   recede-bench report <DIR>
  *   recede-bench demo [--quick] [--out DIR] [--workers N]
@@ -27,16 +27,19 @@ import type { RunRecord } from "./run.js";
 import { parseShard } from "./spec.js";
 import type { Suite } from "./suite.js";
 import { sortRecords, summarize } from "./summary.js";
-import { readSweepFile, runSweep } from "./sweep.js";
+import { planSweep, readSweepFile, runSweep } from "./sweep.js";
 
 const USAGE = `recede-bench — benchmark sweeps, suites and the demo of recede
 
 usage:
-  recede-bench sweep <sweep.json> [--out DIR] [--workers N] [--shard i/n] [--quick] [--trajectories]
+  recede-bench sweep <sweep.json> [--out DIR] [--workers N] [--shard i/n] [--quick] [--trajectories] [--plan]
       run a sweep (problems × optimizers × seeds × episodes); resumes from DIR/results.jsonl
       --out DIR        output folder (default out/sweeps/<sweep name>, or …/shard-i-of-n)
       --workers N      worker threads (default: all cores; 1 = in this thread)
       --shard i/n      run only slice i of n (0 ≤ i < n); merge the slices with 'merge'
+      --quick          smoke run: first seed, one episode of every pair
+      --trajectories   keep every run's state trajectory in results.jsonl
+      --plan           validate the file and list the runs (of this shard) without running
   recede-bench merge <DIR>... --out DIR
       combine the results.jsonl of shard folders and write the summary and report
   recede-bench report <DIR>
@@ -66,11 +69,20 @@ export async function main(argv: readonly string[]): Promise<number> {
           shard: { type: "string" },
           quick: { type: "boolean", default: false },
           trajectories: { type: "boolean", default: false },
+          plan: { type: "boolean", default: false },
         },
       });
       if (positionals.length !== 1) return usage("sweep needs exactly one sweep file");
       const source = readSweepFile(positionals[0]);
       const shard = values.shard ? parseShard(values.shard) : undefined;
+      if (values.plan) {
+        const plan = await planSweep(source, shard, values.quick);
+        for (const r of plan.runs) process.stdout.write(`${r.key}\n`);
+        process.stdout.write(
+          `${plan.runs.length} of ${plan.all} runs${shard ? ` in shard ${shard.index}/${shard.count}` : ""} (sweep file valid)\n`,
+        );
+        return 0;
+      }
       const workers = values.workers === undefined ? undefined : parseWorkers(values.workers);
       const name =
         typeof (source.raw as { name?: unknown }).name === "string"

@@ -14,6 +14,7 @@ export {
   regretChart,
   renderSvg,
   samplesCostChart,
+  trackedRegretChart,
 } from "./charts.js";
 export { mergeResults } from "./cli.js";
 export { type DemoFiles, type DemoOptions, demoSweep, runDemo } from "./demo/demo.js";

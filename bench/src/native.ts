@@ -1,6 +1,7 @@
 /**
  * Helpers to build and run the hand-written C reference of one MPPI control step
- * (bench/native/mppi.c) from the benchmark suites.
+ * (bench/native/mppi.c) and the libm timing program (bench/native/libm.c) from the benchmark
+ * suites.
  *
  * `buildNative()` compiles the C with `gcc -O2 -ffp-contract=off` into bench/native/build/
  * (gitignored) when a compiler is present, and otherwise returns a clear reason to skip.
@@ -20,11 +21,14 @@ export const nativeSourceDir: string = fileURLToPath(new URL("../native/", impor
 /** bench/native/build/ (compiled binaries; gitignored). */
 export const nativeBuildDir: string = fileURLToPath(new URL("../native/build/", import.meta.url));
 
-/** Result of {@link buildNative}. */
+/** Result of {@link buildNative}: the MPPI reference and the libm timing program. */
 export type NativeBuild =
   | {
       readonly ok: true;
+      /** bench/native/build/mppi */
       readonly binary: string;
+      /** bench/native/build/libm */
+      readonly libmBinary: string;
       readonly compiler: string;
       readonly flags: string;
     }
@@ -33,8 +37,9 @@ export type NativeBuild =
 const FLAGS = ["-O2", "-ffp-contract=off"];
 
 /**
- * Compile bench/native/mppi.c (if the binary is missing or older than its sources).
- * Never throws: a missing compiler or a failed build is returned as `{ ok: false, reason }`.
+ * Compile bench/native/mppi.c and bench/native/libm.c (each only if its binary is missing or older
+ * than its sources). Never throws: a missing compiler or a failed build is returned as
+ * `{ ok: false, reason }`.
  */
 export function buildNative(): NativeBuild {
   const cc = process.env.CC ?? "gcc";
@@ -46,25 +51,43 @@ export function buildNative(): NativeBuild {
     };
   }
   const compiler = probe.stdout.split("\n")[0].trim();
-  const sources = ["mppi.c", "rng.h"].map((f) => `${nativeSourceDir}${f}`);
-  for (const s of sources) {
-    if (!existsSync(s)) return { ok: false, reason: `native source missing: ${s}` };
-  }
-  const binary = `${nativeBuildDir}mppi`;
-  const newest = Math.max(...sources.map((s) => statSync(s).mtimeMs));
-  if (!existsSync(binary) || statSync(binary).mtimeMs < newest) {
+  const programs: [string, string[]][] = [
+    ["mppi", ["mppi.c", "rng.h"]],
+    ["libm", ["libm.c"]],
+  ];
+  for (const [name, files] of programs) {
+    const sources = files.map((f) => `${nativeSourceDir}${f}`);
+    for (const s of sources) {
+      if (!existsSync(s)) return { ok: false, reason: `native source missing: ${s}` };
+    }
+    const binary = `${nativeBuildDir}${name}`;
+    const newest = Math.max(...sources.map((s) => statSync(s).mtimeMs));
+    if (existsSync(binary) && statSync(binary).mtimeMs >= newest) continue;
     mkdirSync(nativeBuildDir, { recursive: true });
-    const r = spawnSync(cc, [...FLAGS, "-o", binary, `${nativeSourceDir}mppi.c`, "-lm"], {
-      encoding: "utf8",
-    });
+    const r = spawnSync(cc, [...FLAGS, "-o", binary, sources[0], "-lm"], { encoding: "utf8" });
     if (r.error || r.status !== 0) {
       return {
         ok: false,
-        reason: `${cc} failed to build bench/native/mppi.c: ${r.error?.message ?? r.stderr.trim()}`,
+        reason: `${cc} failed to build bench/native/${files[0]}: ${r.error?.message ?? r.stderr.trim()}`,
       };
     }
   }
-  return { ok: true, binary, compiler, flags: FLAGS.join(" ") };
+  return {
+    ok: true,
+    binary: `${nativeBuildDir}mppi`,
+    libmBinary: `${nativeBuildDir}libm`,
+    compiler,
+    flags: FLAGS.join(" "),
+  };
+}
+
+/** Nanoseconds per call of sin, cos, tan, atan, exp, log in the C library (best of `reps`). */
+export function runLibm(binary: string, calls: number, reps: number): Record<string, number> {
+  const r = spawnSync(binary, [String(calls), String(reps)], { encoding: "utf8" });
+  if (r.error || r.status !== 0) {
+    throw new Error(`native libm timing failed: ${r.error?.message ?? r.stderr.trim()}`);
+  }
+  return JSON.parse(r.stdout) as Record<string, number>;
 }
 
 /** Model ids understood by mppi.c. */

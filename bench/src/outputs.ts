@@ -13,6 +13,7 @@ import {
   costCurveChart,
   regretChart,
   samplesCostChart,
+  trackedRegretChart,
 } from "./charts.js";
 import {
   htmlReport,
@@ -45,6 +46,8 @@ export async function sweepCharts(
     const dt = records.find((r) => r.problem === p && Number.isFinite(r.dt))?.dt ?? 1;
     charts.push(await costCurveChart(p, groups, dt));
     if (groups.length > 1) charts.push(await regretChart(p, groups, dt));
+    if (groups.some((g) => g.trackedRegret && g.trackedRegret.length > 0))
+      charts.push(await trackedRegretChart(p, groups, dt));
     charts.push(
       await computeChart(
         p,
@@ -72,6 +75,8 @@ export async function writeSweepOutputs(
     chartDir?: string;
     /** Column titles for scenario metrics, by metric name. */
     metricLabels?: Readonly<Record<string, string>>;
+    /** Metrics that are 0/1 per episode, shown as percentages (see {@link summaryTable}). */
+    shares?: readonly string[];
   } = {},
 ): Promise<SweepFiles> {
   const chartDir = extra.chartDir ?? "charts";
@@ -98,7 +103,7 @@ export async function writeSweepOutputs(
     intro: extra.intro ?? [
       `${summary.runs} runs. Costs are means over seeds with 95% Student-t confidence intervals (the episodes of a seed are averaged first).`,
     ],
-    table: summaryTable(summary, extra.metricLabels),
+    table: summaryTable(summary, extra.metricLabels, extra.shares),
     charts: charts.map((c) => ({ ...c, file: chartDir ? `${chartDir}/${c.file}` : c.file })),
     sections,
     meta,

@@ -38,6 +38,7 @@ export function currentMeta(command?: string): RunMeta {
 /** Format a number with about 4 significant digits, no exponent for everyday sizes. */
 export function fmt(v: number): string {
   if (!Number.isFinite(v)) return "–";
+  if (v === 0) return "0";
   const a = Math.abs(v);
   if (a !== 0 && (a >= 1e6 || a < 1e-3)) return v.toExponential(2);
   if (a >= 100) return v.toFixed(0);
@@ -56,16 +57,26 @@ export function fmtInterval(i: Interval): string {
 export interface SummaryTable {
   readonly header: readonly string[];
   readonly rows: readonly (readonly string[])[];
+  /** How many leading columns hold text (left-aligned); the rest are numbers. */
+  readonly textColumns: number;
 }
 
-/** The summary table: one row per (problem, optimizer). */
+/**
+ * The summary table: one row per (problem, optimizer). The problem column is left out when the
+ * summary has a single problem.
+ * @param metricLabels - column titles for scenario metrics, by metric name.
+ * @param shares - metrics that are 0/1 per episode (e.g. "landed"): shown as a percentage of seeds
+ *   without an interval.
+ */
 export function summaryTable(
   summary: SweepSummary,
   metricLabels: Readonly<Record<string, string>> = {},
+  shares: readonly string[] = [],
 ): SummaryTable {
   const metricNames = [...new Set(summary.outcomes.flatMap((o) => Object.keys(o.metrics)))].sort();
+  const oneProblem = new Set(summary.outcomes.map((o) => o.problem)).size <= 1;
   const header = [
-    "problem",
+    ...(oneProblem ? [] : ["problem"]),
     "optimizer",
     "seeds",
     "episode cost, mean [95% CI]",
@@ -78,10 +89,16 @@ export function summaryTable(
   const timing = new Map<string, GroupTiming>(
     summary.timing.map((t) => [`${t.problem}\u0000${t.optimizer}`, t]),
   );
+  const metricCell = (o: GroupOutcome, m: string): string => {
+    const i = o.metrics[m];
+    if (!i || !Number.isFinite(i.mean)) return "–";
+    if (shares.includes(m)) return `${Math.round(100 * i.mean)}%`;
+    return fmtInterval(i);
+  };
   const rows = summary.outcomes.map((o: GroupOutcome) => {
     const t = timing.get(`${o.problem}\u0000${o.optimizer}`);
     return [
-      o.problem,
+      ...(oneProblem ? [] : [o.problem]),
       o.optimizer,
       `${o.seeds}${o.failures > 0 ? ` (${o.failures} failed)` : ""}`,
       fmtInterval(o.cost),
@@ -89,10 +106,10 @@ export function summaryTable(
       fmt(o.violations),
       fmt(o.samplesPerStep),
       t ? `${fmt(t.computeMedianMs)} (${fmt(t.computeP95Ms)})` : "–",
-      ...metricNames.map((m) => (o.metrics[m] ? fmtInterval(o.metrics[m]) : "–")),
+      ...metricNames.map((m) => metricCell(o, m)),
     ];
   });
-  return { header, rows };
+  return { header, rows, textColumns: oneProblem ? 1 : 2 };
 }
 
 /** Render a table as GitHub-flavoured Markdown. */
@@ -100,7 +117,7 @@ export function markdownTable(table: SummaryTable): string {
   const esc = (s: string): string => s.replace(/\|/g, "\\|");
   const lines = [
     `| ${table.header.map(esc).join(" | ")} |`,
-    `| ${table.header.map((_, i) => (i < 2 ? "---" : "---:")).join(" | ")} |`,
+    `| ${table.header.map((_, i) => (i < table.textColumns ? "---" : "---:")).join(" | ")} |`,
     ...table.rows.map((r) => `| ${r.map(esc).join(" | ")} |`),
   ];
   return lines.join("\n");
@@ -112,7 +129,9 @@ export function textTable(table: SummaryTable): string {
     Math.max(h.length, ...table.rows.map((r) => r[i].length)),
   );
   const line = (cells: readonly string[]): string =>
-    cells.map((c, i) => (i < 2 ? c.padEnd(widths[i]) : c.padStart(widths[i]))).join("  ");
+    cells
+      .map((c, i) => (i < table.textColumns ? c.padEnd(widths[i]) : c.padStart(widths[i])))
+      .join("  ");
   return [
     line(table.header),
     widths.map((w) => "-".repeat(w)).join("  "),
@@ -178,7 +197,7 @@ export function htmlReport(c: ReportContent): string {
   const table = `<table><thead><tr>${c.table.header.map((h) => `<th>${e(h)}</th>`).join("")}</tr></thead><tbody>${c.table.rows
     .map(
       (r) =>
-        `<tr>${r.map((v, i) => `<td${i >= 2 ? ' class="num"' : ""}>${e(v)}</td>`).join("")}</tr>`,
+        `<tr>${r.map((v, i) => `<td${i >= c.table.textColumns ? ' class="num"' : ""}>${e(v)}</td>`).join("")}</tr>`,
     )
     .join("")}</tbody></table>`;
   const sections = c.sections
@@ -212,7 +231,8 @@ export function htmlReport(c: ReportContent): string {
 <style>
 body { font-family: Helvetica, Arial, sans-serif; margin: 2rem auto; max-width: 1100px; padding: 0 1rem; color: #222; line-height: 1.45; }
 h1 { font-size: 1.6rem; } h2 { font-size: 1.25rem; margin-top: 2rem; border-bottom: 1px solid #ddd; }
-table { border-collapse: collapse; font-size: 0.9rem; margin: 1rem 0; }
+.table-wrap { overflow-x: auto; max-width: 100%; }
+table { border-collapse: collapse; font-size: 0.85rem; margin: 1rem 0; }
 th, td { border: 1px solid #ccc; padding: 0.3rem 0.55rem; } th { background: #f3f3f3; text-align: left; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 .charts { display: flex; flex-wrap: wrap; gap: 1.5rem; }
@@ -226,7 +246,7 @@ dt { font-weight: bold; margin-top: 0.4rem; } dd { margin-left: 1.2rem; }
 <h1>${e(c.title)}</h1>
 ${c.intro.map((p) => `<p>${e(p)}</p>`).join("\n")}
 <h2>Summary</h2>
-${table}
+<div class="table-wrap">${table}</div>
 ${sections}
 <h2>Charts</h2>
 <div class="charts">

@@ -1,4 +1,4 @@
-import { appendFileSync, existsSync, mkdtempSync, readFileSync } from "node:fs";
+import { appendFileSync, existsSync, mkdtempSync, readdirSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -9,7 +9,7 @@ import { currentMeta } from "./report.js";
 import { readResults } from "./results.js";
 import type { RunRecord } from "./run.js";
 import { sortRecords, summarize } from "./summary.js";
-import { runSweep, type SweepSource } from "./sweep.js";
+import { planSweep, readSweepFile, runSweep, type SweepSource } from "./sweep.js";
 
 const plugin = fileURLToPath(new URL("./testing/feedbackPlugin.ts", import.meta.url));
 
@@ -67,6 +67,12 @@ describe("runSweep", () => {
     }
     const mppi = recs.find((r) => r.optimizer === "mppi-32")!;
     expect(mppi.samplesPerStep).toBe(32);
+    // The tracked regret Σ (ℓ̂_t − min_i C_{t,i}) has one entry per step and never decreases
+    // (the free energy is at least the least sampled cost).
+    const reg = mppi.regret!;
+    expect(reg).toHaveLength(mppi.steps);
+    for (let t = 1; t < reg.length; t++) expect(reg[t]).toBeGreaterThanOrEqual(reg[t - 1]);
+    expect(recs.find((r) => r.optimizer === "lqr")!.regret).toBeUndefined();
     // LQR is optimal for the double integrator's own quadratic cost: it beats the do-nothing baseline.
     const s = summarize(recs).outcomes;
     const cost = (o: string) =>
@@ -140,6 +146,16 @@ describe("runSweep", () => {
       /^optimizers\[0\]\.noise: on problem "double-integrator": mppi: noise must be of length 1/,
     );
     expect(existsSync(join(dir, "results.jsonl"))).toBe(false);
+  });
+
+  it("the example sweep files in bench/sweeps are valid", async () => {
+    const dir = fileURLToPath(new URL("../sweeps/", import.meta.url));
+    const files = readdirSync(dir).filter((f) => f.endsWith(".json"));
+    expect(files.length).toBeGreaterThan(0);
+    for (const f of files) {
+      const plan = await planSweep(readSweepFile(join(dir, f)), undefined);
+      expect(plan.runs.length, f).toBeGreaterThan(0);
+    }
   });
 
   it("worker threads give the same results as one thread", async () => {

@@ -94,7 +94,10 @@ export interface SweepOptions {
   readonly workers?: number;
   /** Run only this shard's slice. @defaultValue the whole sweep */
   readonly shard?: Shard;
-  /** Reduced setting, passed to factories. @defaultValue false */
+  /**
+   * Smoke run: only the first seed and one episode of every (problem, optimizer) pair (also passed
+   * to factories as `quick`). @defaultValue false
+   */
   readonly quick?: boolean;
   /** Keep state trajectories in the records. @defaultValue false */
   readonly keepTrajectory?: boolean;
@@ -164,10 +167,33 @@ export function preflight(spec: SweepSpec, registry: Registry, quick: boolean): 
   });
 }
 
+/**
+ * The runs `runSweep` would consider for this shard (before skipping finished ones), after
+ * validating the file and checking every entry: for planning cluster jobs (`sweep --plan`).
+ */
+export async function planSweep(
+  source: SweepSource,
+  shard: Shard | undefined,
+  quick = false,
+): Promise<{ spec: SweepSpec; all: number; runs: RunCell[] }> {
+  const registry = await registryFor(source);
+  const parsed = parseSweepSpec(source.raw, registry);
+  const spec: SweepSpec = quick
+    ? { ...parsed, seeds: parsed.seeds.slice(0, 1), episodes: 1 }
+    : parsed;
+  preflight(spec, registry, quick);
+  const every = enumerateRuns(spec);
+  return { spec, all: every.length, runs: shardRuns(every, shard) };
+}
+
 /** Run (this shard of) a sweep, resuming from `outDir/results.jsonl`. */
 export async function runSweep(source: SweepSource, options: SweepOptions): Promise<SweepOutcome> {
   const registry = await registryFor(source);
-  const spec = parseSweepSpec(source.raw, registry);
+  const parsed = parseSweepSpec(source.raw, registry);
+  // A smoke run: the first seed and one episode of every (problem, optimizer) pair.
+  const spec: SweepSpec = options.quick
+    ? { ...parsed, seeds: parsed.seeds.slice(0, 1), episodes: 1 }
+    : parsed;
   preflight(spec, registry, options.quick ?? false);
   const all = shardRuns(enumerateRuns(spec), options.shard);
   mkdirSync(options.outDir, { recursive: true });

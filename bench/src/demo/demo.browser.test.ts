@@ -19,6 +19,7 @@ const promisedCharts = [
   "gusts.svg",
   "cost-parcel-drone.svg",
   "regret-parcel-drone.svg",
+  "tracked-regret-parcel-drone.svg",
   "compute-parcel-drone.svg",
   "samples-cost-parcel-drone.svg",
 ];

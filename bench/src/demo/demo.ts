@@ -23,7 +23,7 @@ import {
 
 /** Column titles of the scenario metrics. */
 const METRIC_LABELS: Readonly<Record<string, string>> = {
-  landed: "share landed",
+  landed: "seeds landed",
   landingTime: "landing time (s)",
   missDistance: "miss distance (m)",
   touchdownSpeed: "touchdown speed (m/s)",
@@ -107,7 +107,8 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
   rmSync(join(outDir, "results.jsonl"), { force: true });
   const outcome = await runSweep(
     { raw, dir: resolve(outDir) },
-    { outDir, workers: options.workers, quick, keepTrajectory: true },
+    // The demo's reduced setting is in its sweep (demoSweep(quick)), not a sweep smoke run.
+    { outDir, workers: options.workers, quick: false, keepTrajectory: true },
   );
   const sweepJson = join(outDir, "sweep.json");
   writeFileSync(sweepJson, `${JSON.stringify(raw, null, 2)}\n`);
@@ -141,6 +142,7 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
     {
       markdownName: "report.md",
       metricLabels: METRIC_LABELS,
+      shares: ["landed"],
       chartDir: "",
       charts: [await landingChart(outcome.records, optimizers), await gustChart(gusts)],
       intro: [
@@ -189,7 +191,7 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoFiles> {
     },
   );
   if (options.print ?? true) {
-    process.stdout.write(`\n${textTable(summaryTable(summary, METRIC_LABELS))}\n\n`);
+    process.stdout.write(`\n${textTable(summaryTable(summary, METRIC_LABELS, ["landed"]))}\n\n`);
     process.stdout.write(
       `wrote ${files.reportHtml}, ${files.summaryMd}, ${files.charts.length} charts, ${outcome.resultsPath}\n`,
     );

@@ -92,15 +92,35 @@ function meanOf(problem: BenchProblem): Float64Array {
     : new Float64Array(problem.controlSize);
 }
 
-/** Wrap an `@recede/mpc` controller: samples per step = K × iterations actually run. */
+/**
+ * Wrap an `@recede/mpc` controller: samples per step = K × iterations actually run.
+ *
+ * It also tracks the learner's own regret from its step reports: the dynamic regret against the
+ * per-round best sampled sequence, R_T = Σ_{t≤T} (ℓ̂_t − min_i C_{t,i}), where ℓ̂_t is the loss the
+ * controller estimates at the plan it played (free energy for MPPI, mean elite cost for CEM, mean
+ * cost for the expected-cost loss) and C_{t,i} the sampled costs of round t. The comparator is the
+ * per-round minimizer over the samples, as in dynamic regret (Zinkevich, ICML 2003; Hall & Willett,
+ * IEEE J. Sel. Topics Signal Process., 2015); R_T ≥ 0 and grows by what the plan pays over the best
+ * sequence the controller itself found. Rounds whose update was skipped add nothing.
+ */
 export function wrapController(c: Controller): BenchController {
+  const regret: number[] = [];
+  let acc = 0;
   return {
     act(x) {
       const { control, report } = c.act(x);
+      const gap = report.loss - report.costMin;
+      if (Number.isFinite(gap)) acc += gap;
+      regret.push(acc);
       return { control, samples: c.samples * report.iterations };
     },
     reset() {
       c.reset();
+      regret.length = 0;
+      acc = 0;
+    },
+    regretSeries() {
+      return regret.slice();
     },
   };
 }

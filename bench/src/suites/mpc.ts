@@ -8,9 +8,11 @@
  * the median over `repetitions` of steps / wall time (performance.now around the whole loop).
  *
  * Allocation, two independent measurements after warm-up (method recorded in the JSON):
- *  1. heap growth: (with `--expose-gc`) a full GC, then `allocSteps` control steps with no forced
- *     GC, then `process.memoryUsage().heapUsed` again; bytes/step = growth / allocSteps. A young-
- *     generation collection during the window would hide allocations, so (2) is also reported;
+ *  1. heap growth: three consecutive windows, each (with `--expose-gc`) a full GC, then
+ *     `allocSteps` control steps with no forced GC, then `process.memoryUsage().heapUsed` again;
+ *     bytes/step = growth / allocSteps, and the figure is the smallest window (the first may hold
+ *     one-time JIT allocations). A young-generation collection during a window would hide
+ *     allocations, so (2) is also reported;
  *  2. garbage collections observed (PerformanceObserver "gc" entries) during a long run of
  *     `gcSteps` control steps: a step that allocated even a few bytes would trigger scavenges
  *     over 1e4–1e5 steps; zero collections means (to the resolution of the young generation,
@@ -84,8 +86,10 @@ function median(v: number[]): number {
 }
 
 interface AllocResult {
+  /** Steady-state estimate: the smallest per-step heap growth over the windows. */
   readonly bytesPerStep: number;
-  readonly heapGrowthBytes: number;
+  /** Heap growth per step of each window (the first may include one-time JIT allocations). */
+  readonly windows: readonly number[];
   readonly steps: number;
   readonly gcForced: boolean;
   readonly gcEventsDuringLongRun: number;
@@ -101,26 +105,33 @@ async function measureAllocation(
   const gc = (globalThis as { gc?: () => void }).gc;
   const x = p.initialState();
   closedLoopSteps(ctrl, p, x, 50, 0); // warm-up (JIT, lazily grown scratch)
-  if (gc) gc();
-  const h0 = process.memoryUsage().heapUsed;
-  closedLoopSteps(ctrl, p, x, allocSteps, 50);
-  const h1 = process.memoryUsage().heapUsed;
+  const windows: number[] = [];
+  let t = 50;
+  for (let w = 0; w < 3; w++) {
+    if (gc) gc();
+    const h0 = process.memoryUsage().heapUsed;
+    closedLoopSteps(ctrl, p, x, allocSteps, t);
+    const h1 = process.memoryUsage().heapUsed;
+    t += allocSteps;
+    windows.push((h1 - h0) / allocSteps);
+  }
   let events = 0;
-  const obs = new PerformanceObserver((list) => {
-    events += list.getEntries().length;
-  });
-  if (gc) gc();
-  // Let the observer register and drain the forced collection's entry before counting.
-  await new Promise((r) => setTimeout(r, 20));
-  obs.observe({ entryTypes: ["gc"] });
-  await new Promise((r) => setTimeout(r, 20));
-  events = 0;
-  closedLoopSteps(ctrl, p, x, gcSteps, 50 + allocSteps);
-  await new Promise((r) => setTimeout(r, 50));
-  obs.disconnect();
+  if (gcSteps > 0) {
+    const obs = new PerformanceObserver((list) => {
+      events += list.getEntries().length;
+    });
+    if (gc) gc();
+    obs.observe({ entryTypes: ["gc"] });
+    // Let the forced collection's entry drain before counting.
+    await new Promise((r) => setTimeout(r, 20));
+    events = 0;
+    closedLoopSteps(ctrl, p, x, gcSteps, t);
+    await new Promise((r) => setTimeout(r, 50));
+    obs.disconnect();
+  }
   return {
-    bytesPerStep: (h1 - h0) / allocSteps,
-    heapGrowthBytes: h1 - h0,
+    bytesPerStep: Math.min(...windows),
+    windows,
     steps: allocSteps,
     gcForced: gc !== undefined,
     gcEventsDuringLongRun: events,
@@ -184,7 +195,11 @@ export const suite: Suite = {
         timedSteps: steps,
         warmupSteps: warmup,
         allocation: alloc,
-        allocationWithTiming: { bytesPerStep: withTiming.bytesPerStep, steps: withTiming.steps, gcForced: withTiming.gcForced },
+        allocationWithTiming: {
+          bytesPerStep: withTiming.bytesPerStep,
+          steps: withTiming.steps,
+          gcForced: withTiming.gcForced,
+        },
       });
       lines.push(
         `${c.optimizer.padEnd(4)} ${c.problem.padEnd(9)} K=${String(c.samples).padStart(4)} H=${HORIZON}: ` +
@@ -204,7 +219,7 @@ export const suite: Suite = {
           timing:
             "closed loop on the model: warm-up steps, then timed steps; median over repetitions of steps / wall time",
           allocation:
-            "controllers built with timing: false; (1) heapUsed growth over N control steps after warm-up and a forced full GC (needs --expose-gc), divided by N; (2) count of GC events (PerformanceObserver 'gc') during a long run; allocationWithTiming repeats (1) with the default timing: true",
+            "controllers built with timing: false; (1) heapUsed growth over three consecutive windows of N control steps after warm-up, each after a forced full GC (needs --expose-gc), divided by N; bytesPerStep = the smallest window (the first may hold one-time JIT allocations); (2) count of GC events (PerformanceObserver 'gc') during a long run; allocationWithTiming repeats (1) with the default timing: true",
           exposeGc: typeof (globalThis as { gc?: unknown }).gc === "function",
           node: process.version,
         },

@@ -8,7 +8,9 @@
  * checks it by comparing their plans after a few steps from the same seed.
  *
  * Also measures the normal samplers on the same generator (ziggurat = the library's; Marsaglia
- * polar; Box–Muller), which is how the library's method was chosen.
+ * polar; Box–Muller), which is how the library's method was chosen, and the cost per call of
+ * V8's Math.sin/cos/tan/atan/exp/log against the C library's (bench/native/libm.c), which bounds
+ * how close JavaScript can get to C on these trigonometry-bound rollouts.
  *
  * Each timed run is a closed loop on the model itself: `warmup` untimed steps, then `steps` timed
  * steps, each followed by advancing the state with the applied control. Figures are medians over
@@ -21,7 +23,13 @@ import { createStream } from "@recede/core";
 import { mppi } from "@recede/mpc";
 import { type BicycleOptions, bicycle, type CartPoleOptions, cartPole } from "@recede/problems";
 import { referenceStep } from "../mppiReference.js";
-import { buildNative, type NativeModel, type NativeRunConfig, runNative } from "../native.js";
+import {
+  buildNative,
+  type NativeModel,
+  type NativeRunConfig,
+  runLibm,
+  runNative,
+} from "../native.js";
 import type { Suite, SuiteContext, SuiteOutput } from "../suite.js";
 
 const SAMPLES = 2000;
@@ -316,18 +324,74 @@ function samplerNs(reps: number): Record<string, number> {
     for (let w = 0; w < 10; w++) runs[k]();
     best[k] = Number.POSITIVE_INFINITY;
   }
-  // Alternate the samplers; keep each one's fastest repetition (least disturbed by the machine).
+  // Alternate the samplers; keep each one's fastest repetition (least disturbed by other load).
   for (let r = 0; r < reps; r++) {
     for (const k of Object.keys(runs)) {
-      const t0 = performance.now();
+      const c0 = process.cpuUsage();
       for (let i = 0; i < 5; i++) runs[k]();
-      const ns = ((performance.now() - t0) * 1e6) / (5 * n);
+      const c = process.cpuUsage(c0);
+      const ns = ((c.user + c.system) * 1e3) / (5 * n); // process CPU time
       if (ns < best[k]) best[k] = ns;
     }
   }
   const result: Record<string, number> = {};
   for (const k of Object.keys(best)) result[k] = round(best[k], 3);
   return result;
+}
+
+// ---------------------------------------------------------------- V8 Math.* vs the C library
+// The rollouts are dominated by sin/cos/tan/atan; these loops match bench/native/libm.c.
+
+const mathLoops: Record<string, (n: number) => number> = {
+  sin: (n) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) s += Math.sin(i * 1e-3);
+    return s;
+  },
+  cos: (n) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) s += Math.cos(i * 1e-3);
+    return s;
+  },
+  tan: (n) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) s += Math.tan(i * 1e-7);
+    return s;
+  },
+  atan: (n) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) s += Math.atan(i * 1e-6);
+    return s;
+  },
+  exp: (n) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) s += Math.exp(-(i * 1e-6));
+    return s;
+  },
+  log: (n) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) s += Math.log(1 + i * 1e-6);
+    return s;
+  },
+};
+
+/** ns per call (process CPU time), best of `reps` repetitions of `calls` calls. */
+function v8MathNs(calls: number, reps: number): Record<string, number> {
+  const out: Record<string, number> = {};
+  let sink = 0;
+  for (const [name, loop] of Object.entries(mathLoops)) {
+    sink += loop(calls); // warm-up (optimize the loop)
+    let best = Number.POSITIVE_INFINITY;
+    for (let r = 0; r < reps; r++) {
+      const c0 = process.cpuUsage();
+      sink += loop(calls);
+      const c = process.cpuUsage(c0);
+      best = Math.min(best, ((c.user + c.system) * 1e3) / calls);
+    }
+    out[name] = round(best, 3);
+  }
+  if (sink === 0.5) out.sink = sink; // keeps the loops observable
+  return out;
 }
 
 // ---------------------------------------------------------------- the suite
@@ -428,8 +492,17 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
   }
 
   const normals = samplerNs(ctx.quick ? 3 : 15);
+  const mathCalls = ctx.quick ? 200_000 : 2_000_000;
+  const mathReps = ctx.quick ? 2 : 5;
+  const v8Math = v8MathNs(mathCalls, mathReps);
+  const libm = native.ok ? runLibm(native.libmBinary, mathCalls, mathReps) : null;
   lines.push(
-    `normals (ns/draw, fastest of repetitions): ${Object.entries(normals)
+    `math ns/call (CPU time) V8 vs C library: ${Object.keys(v8Math)
+      .map((k) => `${k} ${v8Math[k]}${libm ? ` vs ${libm[k]}` : ""}`)
+      .join(", ")}`,
+  );
+  lines.push(
+    `normals (ns/draw, CPU time, fastest of repetitions): ${Object.entries(normals)
       .map(([k, v]) => `${k} ${v}`)
       .join(", ")}`,
   );
@@ -440,6 +513,7 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
         : { available: false, reason: native.reason },
       models,
       normal_sampler_ns_per_draw: normals,
+      math_ns_per_call: { v8: v8Math, c_library: libm },
       load_average_1min: { before: round(loadBefore, 3), after: round(loadavg()[0], 3) },
     },
     lines,

@@ -5,6 +5,7 @@ import { describe, expect, it } from "vitest";
 // Every `@example` in these files runs here, with the package's exports in scope, so the examples
 // in the API docs cannot rot.
 const files = [
+  "divergence/geometry.ts",
   "divergence/euclidean.ts",
   "divergence/mahalanobis.ts",
   "divergence/entropy.ts",
@@ -16,6 +17,8 @@ const files = [
   "learners/dynamicMirrorDescent.ts",
   "learners/fixedShare.ts",
   "learners/affineDynamic.ts",
+  "learners/hedge.ts",
+  "learners/onlineGradientDescent.ts",
   "matrixInput.ts",
 ];
 
@@ -49,6 +52,6 @@ describe("doc examples run", () => {
     });
   }
   it("found the examples", () => {
-    expect(total).toBe(18);
+    expect(total).toBe(21);
   });
 });

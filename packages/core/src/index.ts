@@ -60,12 +60,17 @@ export {
   dynamicMirrorDescent,
 } from "./learners/dynamicMirrorDescent.js";
 export { fixedShare } from "./learners/fixedShare.js";
+export { type HedgeOptions, hedge } from "./learners/hedge.js";
 export {
   type MirrorDescentLearner,
   type MirrorDescentOptions,
   type MirrorDescentSnapshot,
   mirrorDescent,
 } from "./learners/mirrorDescent.js";
+export {
+  type OnlineGradientDescentOptions,
+  onlineGradientDescent,
+} from "./learners/onlineGradientDescent.js";
 export {
   adaGradStep,
   constantStep,

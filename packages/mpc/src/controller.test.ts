@@ -298,3 +298,104 @@ describe("typed errors", () => {
     expect(bitEqual(plan, ctrl.plan())).toBe(true);
   });
 });
+
+describe("weights limits through the controller (MATH.md §10 (c), (d))", () => {
+  const still = { map: () => {} };
+  it("MPPI with λ → 0 moves the plan onto the best sample; λ → ∞ onto the plain sample mean", () => {
+    for (const [temperature, pick] of [
+      [1e-9, "best"],
+      [1e12, "mean"],
+    ] as const) {
+      const ctrl = createController(
+        base({
+          loss: exponentialUtility({ temperature }),
+          shift: { name: "none", check() {}, apply: still.map },
+        }),
+      );
+      ctrl.act(x0);
+      const h = 12;
+      const expected = new Float64Array(h);
+      if (pick === "best") {
+        let best = 0;
+        for (let k = 1; k < 100; k++) if (ctrl.costs[k] < ctrl.costs[best]) best = k;
+        expected.set(ctrl.sampled.subarray(best * h, best * h + h));
+      } else {
+        for (let k = 0; k < 100; k++)
+          for (let t = 0; t < h; t++) expected[t] += ctrl.sampled[k * h + t] / 100;
+      }
+      for (let t = 0; t < h; t++) expect(ctrl.plan()[t]).toBeCloseTo(expected[t], 10);
+    }
+  });
+
+  it("CEM with ρ = 1 and γ = 1 refits the sample mean (MATH.md §10 (d))", () => {
+    const ctrl = createController(
+      base({
+        loss: eliteFraction({ fraction: 1 }),
+        plan: gaussianPlan({ std: 1, adaptVariance: true }),
+        shift: { name: "none", check() {}, apply() {} },
+      }),
+    );
+    ctrl.act(x0);
+    for (let t = 0; t < 12; t++) {
+      let m = 0;
+      for (let k = 0; k < 100; k++) m += ctrl.sampled[k * 12 + t] / 100;
+      expect(ctrl.plan()[t]).toBeCloseTo(m, 12);
+    }
+  });
+});
+
+describe("other parts in closed loop on the double integrator", () => {
+  // Passive cost (u ≡ 0) from x₀ = (1, 0) over 60 steps, for scale.
+  const passive = (() => {
+    const x = new Float64Array(x0);
+    const c = new Float64Array(1);
+    const u = new Float64Array(1);
+    for (let t = 0; t < 60; t++) {
+      prob.cost.running(x, 0, u, 0, 1, 0, c, 0);
+      prob.dynamics.step(x, 0, u, 0, 1, t);
+    }
+    prob.cost.terminal(x, 0, 1, c, 0);
+    return c[0];
+  })();
+  const closed = (parts: ControllerParts) => {
+    const ctrl = createController(parts);
+    const x = new Float64Array(x0);
+    const c = new Float64Array(1);
+    for (let t = 0; t < 60; t++) {
+      const u = ctrl.act(x).control;
+      prob.cost.running(x, 0, u, 0, 1, 0, c, 0);
+      prob.dynamics.step(x, 0, u, 0, 1, t);
+    }
+    prob.cost.terminal(x, 0, 1, c, 0);
+    return { cost: c[0], x };
+  };
+
+  it("a categorical plan over five accelerations regulates the state (cost < 40% of passive)", () => {
+    const r = closed(
+      base({
+        horizon: 15,
+        samples: 128,
+        plan: categoricalPlan({ choices: [[-2], [-1], [0], [1], [2]], minProbability: 0.02 }),
+        loss: exponentialUtility({ temperature: 0.05 }),
+        stepSize: 0.7,
+      }),
+    );
+    expect(r.cost).toBeLessThan(0.4 * passive);
+    expect(Math.abs(r.x[0])).toBeLessThan(0.3);
+  });
+
+  it("the expected-cost loss with the un-normalized step regulates the state (cost < 40% of passive)", () => {
+    const r = closed(
+      base({
+        horizon: 15,
+        samples: 128,
+        plan: gaussianPlan({ std: 0.5 }),
+        loss: expectedCost(),
+        stepSize: 0.5,
+        iterations: 3,
+      }),
+    );
+    expect(r.cost).toBeLessThan(0.4 * passive);
+    expect(Math.abs(r.x[0])).toBeLessThan(0.3);
+  });
+});

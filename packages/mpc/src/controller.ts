@@ -160,6 +160,11 @@ export interface Controller extends Observable {
   restore(snapshot: ControllerSnapshot): void;
   /** Last sampled costs (K; +∞ for failed samples). */
   readonly costs: Float64Array;
+  /**
+   * The clipped control sequences of the last iteration, K·H·m (sample k, step t at (k·H + t)·m);
+   * empty for an objective-driven controller. Read only.
+   */
+  readonly sampled: Float64Array;
   /** Last weights (K). */
   readonly weights: Float64Array;
 }
@@ -426,7 +431,7 @@ class GenericController implements Controller {
   private readonly observers = new ObserverList();
   private readonly streams: Stream[];
   private readonly initialStreams: StreamState[];
-  private readonly sampleBuf: Float64Array;
+  readonly sampled: Float64Array;
   readonly weights: Float64Array;
   readonly costs: Float64Array;
   private readonly gammas: Float64Array;
@@ -472,7 +477,7 @@ class GenericController implements Controller {
       this.streams.push(st);
       this.initialStreams.push(st.getState());
     }
-    this.sampleBuf = new Float64Array(rollout === null ? 0 : samples * len);
+    this.sampled = new Float64Array(rollout === null ? 0 : samples * len);
     this.weights = new Float64Array(samples);
     this.costs = rollout === null ? new Float64Array(samples) : rollout.costs;
     this.gammas = new Float64Array(iterations);
@@ -546,7 +551,8 @@ class GenericController implements Controller {
     const gammas = this.gammas;
     for (let it = 0; it < this.iterations; it++) {
       const g = typeof this.stepSize === "number" ? this.stepSize : this.stepSize(round, it);
-      if (typeof g !== "number" || !(g > 0 && g <= 1)) checkStep(fn, `stepSize(${round}, ${it})`, g);
+      if (typeof g !== "number" || !(g > 0 && g <= 1))
+        checkStep(fn, `stepSize(${round}, ${it})`, g);
       gammas[it] = g as number;
     }
     const dist = this.distribution;
@@ -601,7 +607,7 @@ class GenericController implements Controller {
     const dist = this.distribution;
     const k = this.samples;
     const size = this.sliceSize;
-    const buf = this.sampleBuf;
+    const buf = this.sampled;
     let failures = 0;
     for (let s = 0; s < this.slices; s++) {
       const from = s * size;

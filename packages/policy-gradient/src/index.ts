@@ -14,6 +14,7 @@ export {
   type RolloutEnvironmentOptions,
   rolloutEnvironment,
   type StepDecider,
+  type TerminationTest,
 } from "./environment/environment.js";
 export { EpisodeBatch } from "./environment/episodeBatch.js";
 export { GaeEstimator, type GaeOptions, gae } from "./estimators/gae.js";
@@ -63,11 +64,13 @@ export {
   imitationLearner,
 } from "./imitation/imitationLearner.js";
 export {
+  type LqrFromLinearQuadraticOptions,
   type LqrPolicyEvaluation,
   LqrPolicyProblem,
   type LqrPolicyProblemOptions,
   type LqrUpdateMethod,
   lqrPolicyProblem,
+  lqrPolicyProblemFrom,
 } from "./lqr/exactLqrGradient.js";
 export { type PolicyActor, type PolicyActorOptions, policyActor } from "./policies/actor.js";
 export {

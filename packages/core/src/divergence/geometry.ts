@@ -9,7 +9,36 @@
  * @module
  */
 
-/** A Bregman geometry on vectors of a fixed dimension. Implementations allocate nothing per call. */
+/**
+ * A Bregman geometry on vectors of a fixed dimension. Implementations allocate nothing per call
+ * and do not validate their arguments (the learners validate feedback once per round and check
+ * every step's result with {@link Geometry.contains}); methods must not modify their inputs.
+ *
+ * To add your own geometry (a Fisher metric, a weighted norm, …) implement this interface and add
+ * one row to the `geometryLaws` table of the private testkit: the laws check D ≥ 0, the
+ * three-point identity, ∇ψ* ∘ ∇ψ = id and the step's optimality.
+ *
+ * Built in: {@link euclidean}, {@link mahalanobis}, {@link entropy}, {@link positiveEntropy},
+ * {@link diagonalGaussian}.
+ *
+ * @example
+ * ```ts
+ * // ψ(x) = ½ Σ wᵢxᵢ² (a diagonal metric), written by hand.
+ * const w = [1, 4];
+ * const weighted = {
+ *   name: "weighted",
+ *   dimension: 2,
+ *   potential: (x) => 0.5 * (w[0] * x[0] * x[0] + w[1] * x[1] * x[1]),
+ *   divergence: (x, y) => 0.5 * (w[0] * (x[0] - y[0]) ** 2 + w[1] * (x[1] - y[1]) ** 2),
+ *   mirrorMap: (x, out) => { out[0] = w[0] * x[0]; out[1] = w[1] * x[1]; return out; },
+ *   inverseMirrorMap: (t, out) => { out[0] = t[0] / w[0]; out[1] = t[1] / w[1]; return out; },
+ *   step: (x, g, eta, out) => { out[0] = x[0] - (eta * g[0]) / w[0]; out[1] = x[1] - (eta * g[1]) / w[1]; return out; },
+ *   contains: (x) => Number.isFinite(x[0]) && Number.isFinite(x[1]),
+ * };
+ * const learner = mirrorDescent({ geometry: weighted, initial: [0, 0], stepSize: 1 });
+ * learner.update({ gradient: new Float64Array([1, 4]) }); // decision [-1, -1]
+ * ```
+ */
 export interface Geometry {
   /** Short name, e.g. `"euclidean"`, `"mahalanobis"`, `"entropy"`. */
   readonly name: string;

@@ -5,8 +5,10 @@ import {
   dynamicMirrorDescent,
   entropy,
   euclidean,
+  hedge,
   inverseSqrtStep,
   mirrorDescent,
+  onlineGradientDescent,
   positiveEntropy,
   type RoundRecord,
   scheduledStep,
@@ -468,5 +470,78 @@ describe("dynamicMirrorDescent", () => {
         }),
       { code: "range", fn: "dynamicMirrorDescent", arg: "stepSize" },
     );
+  });
+});
+
+describe("presets: hedge and onlineGradientDescent", () => {
+  it("equal their compositions bit for bit", () => {
+    const gs = [g(0.2, 1, 0.5), g(1, 0, 0), g(0.3, 0.3, 0.9)];
+    const a = hedge({ experts: 3, stepSize: 0.7 });
+    const b = mirrorDescent({
+      geometry: entropy({ dimension: 3 }),
+      initial: [1 / 3, 1 / 3, 1 / 3],
+      stepSize: 0.7,
+    });
+    const c = onlineGradientDescent({
+      initial: [0, 0, 0],
+      stepSize: inverseSqrtStep(0.4),
+      feasible: { kind: "ball", radius: 1 },
+    });
+    const d = mirrorDescent({
+      geometry: euclidean({ dimension: 3, feasible: { kind: "ball", radius: 1 } }),
+      initial: [0, 0, 0],
+      stepSize: inverseSqrtStep(0.4),
+    });
+    for (const gr of gs) {
+      for (const l of [a, b, c, d]) l.update({ gradient: gr });
+      expect(Array.from(a.decision())).toEqual(Array.from(b.decision()));
+      expect(Array.from(c.decision())).toEqual(Array.from(d.decision()));
+    }
+  });
+  it("reject bad options with typed errors naming the preset", () => {
+    catchRecedeError(() => hedge({ experts: 0, stepSize: 1 }), {
+      code: "range",
+      fn: "hedge",
+      arg: "experts",
+    });
+    catchRecedeError(() => hedge({ experts: 2, stepSize: 1, initial: [0.9, 0.9] }), {
+      code: "domain",
+      fn: "hedge",
+      arg: "initial",
+    });
+    catchRecedeError(() => hedge({ experts: 2, stepSize: 1, initial: [1] }), {
+      code: "dimension",
+      fn: "hedge",
+      arg: "initial",
+    });
+    catchRecedeError(() => hedge({ experts: 2, stepSize: -1 }), {
+      code: "range",
+      fn: "mirrorDescent",
+      arg: "stepSize",
+    });
+    catchRecedeError(() => onlineGradientDescent({ initial: [], stepSize: 1 }), {
+      code: "dimension",
+      fn: "onlineGradientDescent",
+      arg: "initial",
+    });
+    catchRecedeError(
+      () =>
+        onlineGradientDescent({
+          initial: [2, 0],
+          stepSize: 1,
+          feasible: { kind: "ball", radius: 1 },
+        }),
+      {
+        code: "domain",
+        fn: "onlineGradientDescent",
+        arg: "initial",
+        message: "feasible ball",
+      },
+    );
+    catchRecedeError(() => onlineGradientDescent({ initial: "x" as never, stepSize: 1 }), {
+      code: "type",
+      fn: "onlineGradientDescent",
+      arg: "initial",
+    });
   });
 });

@@ -279,7 +279,8 @@ class GaussianPlan implements PlanDistribution {
     const floor = this.minVar[0];
     for (let p = 0; p < this.len; p++) {
       const y = v[p];
-      const x = y >= floor ? y : floor; // also catches NaN
+      // biome-ignore lint/complexity/useMathMinMax: Math.max would keep NaN; this maps NaN to the floor.
+      const x = y >= floor ? y : floor;
       v[p] = x;
       s[p] = Math.sqrt(x);
     }

@@ -123,6 +123,38 @@ describe("imitation building blocks", () => {
     expect(bc.rounds[0].fitLoss).toBeLessThan(1e-12);
   });
 
+  it("an expert shaped like an MPC controller (act → { control, report }, reset) plugs in as it is", () => {
+    const p = doubleIntegrator({ dt: 0.1 });
+    const env = environmentFromProblem(p, { horizon: 25, initialStateStd: 0.5 });
+    let resets = 0;
+    const buf = new Float64Array(1);
+    const mpcLike = {
+      reset() {
+        resets++;
+      },
+      act(s: Float64Array) {
+        buf[0] = -(2 * s[0] + 3 * s[1]); // the controller reuses its buffer between calls
+        return { control: buf, report: { iterations: 1 } };
+      },
+    };
+    const policy = linearGaussianPolicy({ stateSize: 2, actionSize: 1 });
+    const res = dagger({
+      environment: env,
+      expert: mpcLike,
+      policy,
+      rounds: 3,
+      episodesPerRound: 2,
+      seed: 1,
+      fit: { ridge: 0 },
+    });
+    expect(resets).toBe(6); // once per episode
+    expect(res.parameters[0]).toBeCloseTo(2, 8);
+    expect(res.parameters[1]).toBeCloseTo(3, 8);
+    const evaluation = env.evaluate(mpcLike, 3, createStream(2));
+    expect(resets).toBe(9);
+    expect(Number.isFinite(evaluation.mean)).toBe(true);
+  });
+
   it("exponential mixing β_i = p^{i−1}; validation picks the best round", () => {
     const p = doubleIntegrator({ dt: 0.1 });
     const env = environmentFromProblem(p, { horizon: 30, initialStateStd: 0.5 });

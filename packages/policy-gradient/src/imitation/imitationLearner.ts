@@ -145,17 +145,25 @@ export class ImitationLearner
     const n = this.policy.stateSize;
     const w = this.policy.actionSize;
     const count = requireInteger(fn, "feedback.count", feedback.count, 1);
-    requireFiniteArray(fn, "feedback.states", feedback.states, feedback.states?.length ?? 0);
-    requireFiniteArray(fn, "feedback.labels", feedback.labels, feedback.labels?.length ?? 0);
-    if (feedback.states.length < count * n || feedback.labels.length < count * w) {
-      throw new RecedeError(
-        "dimension",
-        fn,
-        "feedback",
-        `${count} states of size ${n} and labels of size ${w}`,
-        feedback.states,
-      );
-    }
+    const check = (arr: unknown, len: number, name: string): Float64Array => {
+      if (!(arr instanceof Float64Array) || arr.length < len) {
+        throw new RecedeError(
+          "dimension",
+          fn,
+          `feedback.${name}`,
+          `a Float64Array of length >= ${len}`,
+          arr,
+        );
+      }
+      for (let i = 0; i < len; i++) {
+        if (!Number.isFinite(arr[i])) {
+          throw new RecedeError("non-finite", fn, `feedback.${name}[${i}]`, "finite", arr[i]);
+        }
+      }
+      return arr;
+    };
+    check(feedback.states, count * n, "states");
+    check(feedback.labels, count * w, "labels");
     if (this.policy.kind === "categorical") {
       for (let i = 0; i < count; i++) {
         const a = feedback.labels[i];

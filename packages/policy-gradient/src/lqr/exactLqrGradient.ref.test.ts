@@ -1,6 +1,7 @@
 import { readFileSync } from "node:fs";
 import { RecedeError } from "@recede/core";
-import { lqrPolicyProblem } from "@recede/policy-gradient";
+import { lqrPolicyProblem, lqrPolicyProblemFrom } from "@recede/policy-gradient";
+import { doubleIntegrator } from "@recede/problems";
 import { describe, expect, it } from "vitest";
 
 // Reference: scripts/reference/pg_lqr_gradient.py — scipy.linalg.solve_discrete_lyapunov and
@@ -133,6 +134,19 @@ describe("LQR policy updates converge to the DARE gain (scipy.linalg.solve_discr
         expect(s).toBeCloseTo(ev2.e[a * n + j], 10);
       }
     }
+  });
+});
+
+describe("lqrPolicyProblemFrom a reference problem's LQ data", () => {
+  it("the double integrator of @recede/problems gives the fixture's DARE gain by Gauss–Newton", () => {
+    const lq = doubleIntegrator({ dt: 0.1, q: 1, r: 0.1 }).linearQuadratic;
+    if (lq === null) throw new Error("no LQ data");
+    const p = lqrPolicyProblemFrom(lq);
+    let k: Float64Array = new Float64Array([1, 1.5]);
+    for (let i = 0; i < 12; i++) k = p.step(k, "gauss-newton", 0.5);
+    const d = fixture.dare.find((x) => x.name === "double-integrator");
+    if (d === undefined) throw new Error("fixture entry missing");
+    expect(maxAbs(k, flat(d.K))).toBeLessThan(1e-9 * scaleOf(flat(d.K)));
   });
 });
 

@@ -14,6 +14,7 @@ import {
   spectralRadius,
   toRowMajor,
 } from "@recede/core";
+import type { LinearQuadratic } from "@recede/problems";
 import { requireFiniteArray, requireUnitHalfOpen } from "../internal/validate.js";
 
 /** Options of {@link lqrPolicyProblem}. */
@@ -346,4 +347,45 @@ function requireSpd(fn: string, arg: string, a: Float64Array, n: number): void {
       `a ${n}×${n} matrix that is not`,
     );
   }
+}
+
+/** Options of {@link lqrPolicyProblemFrom}: the parts of {@link LqrPolicyProblemOptions} the LQ data does not give. */
+export interface LqrFromLinearQuadraticOptions {
+  /** Σ₀. @defaultValue the identity */
+  readonly initialCovariance?: MatrixInput;
+  /** γ. @defaultValue 1 */
+  readonly discount?: number;
+  /** W. @defaultValue 0 */
+  readonly actionNoise?: MatrixInput;
+}
+
+/**
+ * {@link lqrPolicyProblem} on the linear-quadratic data of a reference problem
+ * (`problem.linearQuadratic` of `@recede/problems`: A, B, Q, R about the goal; the terminal weight
+ * does not enter the infinite-horizon cost). The gain then acts on δx = x − x̄.
+ *
+ * @example
+ * ```ts
+ * const lqr = lqrPolicyProblemFrom(doubleIntegrator().linearQuadratic!);
+ * ```
+ */
+export function lqrPolicyProblemFrom(
+  lq: LinearQuadratic,
+  options: LqrFromLinearQuadraticOptions = {},
+): LqrPolicyProblem {
+  const fn = "lqrPolicyProblemFrom";
+  if (typeof lq !== "object" || lq === null || !(lq.a instanceof Float64Array)) {
+    throw new RecedeError("type", fn, "lq", "a LinearQuadratic record", lq);
+  }
+  const n = lq.stateSize;
+  const m = lq.controlSize;
+  return lqrPolicyProblem({
+    a: mat(lq.a, n, n),
+    b: mat(lq.b, n, m),
+    q: mat(lq.q, n, n),
+    r: mat(lq.r, m, m),
+    initialCovariance: options.initialCovariance,
+    discount: options.discount,
+    actionNoise: options.actionNoise,
+  });
 }
