@@ -20,3 +20,21 @@ const parts: Record<string, () => void> = {
 for (const f of Object.values(parts)) for (let i = 0; i < 100; i++) f();
 const f = parts[which];
 for (let i = 0; i < N; i++) f();
+const gc = (globalThis as any).gc as (() => void) | undefined;
+if (gc) for (const [name, g] of Object.entries(parts)) for (let w = 0; w < 2; w++) {
+  gc();
+  const h0 = process.memoryUsage().heapUsed;
+  for (let i = 0; i < 200; i++) g();
+  console.log(name, ((process.memoryUsage().heapUsed - h0) / 200).toFixed(1), "B/call");
+}
+if (gc) for (let w = 0; w < 3; w++) {
+  gc();
+  const h0 = process.memoryUsage().heapUsed;
+  for (let i = 0; i < 200; i++) for (let s = 0; s < NS; s++) eng.clip(buf, s * S, 64);
+  const h1 = process.memoryUsage().heapUsed;
+  for (let i = 0; i < 200; i++) for (let s = 0; s < NS; s++) eng.run(x0, buf, s * S, 64);
+  const h2 = process.memoryUsage().heapUsed;
+  for (let i = 0; i < 200; i++) { }
+  const h3 = process.memoryUsage().heapUsed;
+  console.log("direct clip", ((h1 - h0) / 200).toFixed(1), "run", ((h2 - h1) / 200).toFixed(1), "empty", ((h3 - h2) / 200).toFixed(1));
+}
