@@ -97,11 +97,20 @@ function field(
   d[dOff + 5] = (arm * (tr - tl)) / inertia;
 }
 
-/** One RK4 step of length dt for `count` states in place; `side` is the constant side force. */
+/**
+ * One RK4 step of length dt for `count` states in place; `side` is the constant side force.
+ * With `roof`, the roof is part of the model: a state with p_z ≤ 0 has landed and stays where it
+ * is (absorbing), and a step that crosses p_z = 0 is cut at the crossing by linear interpolation
+ * between the step's end points, exactly as the plant does at touchdown.
+ */
 class DroneRk4 {
   private readonly k = new Float64Array(4 * N);
   private readonly tmp = new Float64Array(N);
-  constructor(private readonly dt: number) {}
+  private readonly prev = new Float64Array(N);
+  constructor(
+    private readonly dt: number,
+    private readonly roof: boolean,
+  ) {}
 
   step(
     x: Float64Array,
@@ -111,9 +120,11 @@ class DroneRk4 {
     count: number,
     side: number,
   ): void {
-    const { k, tmp, dt } = this;
+    const { k, tmp, prev, dt, roof } = this;
     for (let s = 0; s < count; s++) {
       const b = xo + s * N;
+      if (roof && x[b + 1] <= 0) continue;
+      for (let i = 0; i < N; i++) prev[i] = x[b + i];
       const tl = u[uo + s * M];
       const tr = u[uo + s * M + 1];
       field(x, b, tl, tr, side, k, 0);
@@ -125,11 +136,17 @@ class DroneRk4 {
       field(tmp, 0, tl, tr, side, k, 3 * N);
       for (let i = 0; i < N; i++)
         x[b + i] += (dt / 6) * (k[i] + 2 * k[N + i] + 2 * k[2 * N + i] + k[3 * N + i]);
+      if (roof && x[b + 1] <= 0) {
+        // Touchdown inside this period: cut the step at the crossing p_z = 0.
+        const a = prev[1] / (prev[1] - x[b + 1]);
+        for (let i = 0; i < N; i++) x[b + i] = prev[i] + a * (x[b + i] - prev[i]);
+        x[b + 1] = 0;
+      }
     }
   }
 }
 
-/** Cost weights of the landing task. */
+/** Cost weights of the landing task (see {@link droneCost} for the formula). */
 export const DRONE_WEIGHTS: {
   readonly position: number;
   readonly height: number;
@@ -138,10 +155,19 @@ export const DRONE_WEIGHTS: {
   readonly rate: number;
   readonly thrust: number;
   readonly envelope: number;
+  readonly envelopeBase: number;
+  readonly envelopeSlope: number;
   readonly cone: number;
+  readonly coneBase: number;
+  readonly coneSlope: number;
+  readonly bank: number;
+  readonly bankAngle: number;
   readonly airborne: number;
   readonly terminal: number;
   readonly aimHeight: number;
+  readonly touchdown: number;
+  readonly touchdownExcess: number;
+  readonly touchdownMargin: number;
 } = Object.freeze({
   position: 1,
   height: 2,
@@ -149,20 +175,39 @@ export const DRONE_WEIGHTS: {
   velocity: 0.3,
   rate: 0.5,
   thrust: 0.01,
-  /** Weight of the squared excess over the descent-speed envelope −v_z ≤ 0.3 + 0.5·p_z. */
+  /** Weight w_e of the squared excess over the descent-speed envelope −v_z ≤ e₀ + e₁·p_z. */
   envelope: 40,
-  /** Weight of the squared excess over the approach cone |p_x| ≤ 0.2 + 0.6·p_z. */
+  /** e₀, m/s: the descent speed the envelope allows at the roof. */
+  envelopeBase: 0.3,
+  /** e₁, 1/s: how much faster the envelope allows descending per metre of height. */
+  envelopeSlope: 0.5,
+  /** Weight w_c of the squared excess over the approach cone |p_x| ≤ c₀ + c₁·p_z. */
   cone: 20,
+  /** c₀, m: half-width of the cone at the roof. */
+  coneBase: 0.2,
+  /** c₁: widening of the cone per metre of height. */
+  coneSlope: 0.6,
+  /** Weight w_b of the squared excess of |θ| over the bank angle θ_b. */
+  bank: 100,
+  /** θ_b, rad (20°): tilt above which banking is penalized steeply (violations start at 30°). */
+  bankAngle: (20 * Math.PI) / 180,
   /** Cost per step while airborne (p_z > 0): the price of time in the air (battery, schedule). */
   airborne: 2,
+  /** Terminal weight w_H on the state part q(x) when the horizon ends in the air. */
   terminal: 10,
   /**
    * Height the cost aims at, m: slightly below the roof, so that reaching the pad (and touching
    * down) is what the cost asks for rather than hovering just above it.
    */
   aimHeight: -0.5,
+  /** Weight w_L of the landed state's normalized touchdown figures, per remaining step. */
+  touchdown: 2,
+  /** Weight w_F of their excess over the margin, per remaining step. */
+  touchdownExcess: 200,
+  /** Margin ρ: touchdown figures beyond ρ × their threshold are penalized steeply. */
+  touchdownMargin: 0.7,
+  ...(process.env.DRONE_W ? JSON.parse(process.env.DRONE_W) : {}),
 });
-
 /** Hover thrust per rotor, N. */
 export const HOVER_THRUST: number = (DRONE_PARAMETERS.mass * DRONE_PARAMETERS.gravity) / 2;
 
@@ -188,10 +233,37 @@ function stateCost(x: Float64Array, b: number): number {
 }
 
 /**
- * The landing cost: running
- *   c(x, u) = q(x) + w_u ‖u − u_hover‖² + w_e max(0, −v_z − 0.3 − 0.5 p_z)² + w_c max(0, |p_x| − 0.2 − 0.6 p_z)² + w_a 1[p_z > 0],
- * terminal c_H(x) = w_H q(x). The envelope term asks for a descent that slows near the roof, the
- * cone term for being over the pad before getting low, and w_a prices time in the air.
+ * Cost of the landed (absorbing) state, per remaining step: with the touchdown figures normalized
+ * by their thresholds, a₁ = |p_x|/r_miss, a₂ = ‖v‖/v_td, a₃ = |θ|/θ_td,
+ *   ℓ(x) = w_L Σ_i a_i² + w_F Σ_i max(0, a_i − ρ)².
+ * The first part prefers a soft, centred touchdown; the second is steep once a figure passes ρ of
+ * its threshold, so the planner keeps a margin to the success test rather than aiming at its edge.
+ */
+function landedCost(x: Float64Array, b: number): number {
+  const w = DRONE_WEIGHTS;
+  const th = DRONE_THRESHOLDS;
+  const a1 = Math.abs(x[b]) / th.missDistance;
+  const a2 = Math.sqrt(x[b + 3] * x[b + 3] + x[b + 4] * x[b + 4]) / th.touchdownSpeed;
+  const a3 = Math.abs(x[b + 2]) / th.tilt;
+  const e1 = a1 > w.touchdownMargin ? a1 - w.touchdownMargin : 0;
+  const e2 = a2 > w.touchdownMargin ? a2 - w.touchdownMargin : 0;
+  const e3 = a3 > w.touchdownMargin ? a3 - w.touchdownMargin : 0;
+  return (
+    w.touchdown * (a1 * a1 + a2 * a2 + a3 * a3) + w.touchdownExcess * (e1 * e1 + e2 * e2 + e3 * e3)
+  );
+}
+
+/**
+ * The landing cost. Airborne (p_z > 0), the running cost is
+ *   c(x, u) = q(x) + w_u ‖u − u_hover‖² + w_e max(0, −v_z − e₀ − e₁ p_z)²
+ *           + w_c max(0, |p_x| − c₀ − c₁ p_z)² + w_b max(0, |θ| − θ_b)² + w_a;
+ * landed (p_z ≤ 0, the model's absorbing touchdown state), it is ℓ(x) of the touchdown figures
+ * (see `landedCost`), and the controls no longer matter. Terminal: c_H(x) = w_H q(x) in the air,
+ * ℓ(x) once landed. The envelope asks for a descent that slows near the roof, the cone for being
+ * over the pad before getting low, the bank term keeps the tilt well below the 30° limit, w_a prices
+ * time in the air, and ℓ scores the touchdown itself (speed, miss distance, tilt) against the
+ * success thresholds. The episode cost of a run is this cost along the plant's path, ending with
+ * ℓ of the touchdown state.
  */
 export const droneCost: CostModel = {
   stateSize: N,
@@ -200,29 +272,45 @@ export const droneCost: CostModel = {
     const w = DRONE_WEIGHTS;
     for (let k = 0; k < count; k++) {
       const b = xo + k * N;
+      const pz = x[b + 1];
+      if (pz <= 0) {
+        out[oo + k] += landedCost(x, b);
+        continue;
+      }
       const du0 = u[uo + k * M] - HOVER_THRUST;
       const du1 = u[uo + k * M + 1] - HOVER_THRUST;
-      const excess = -x[b + 4] - 0.3 - 0.5 * Math.max(0, x[b + 1]);
+      const excess = -x[b + 4] - w.envelopeBase - w.envelopeSlope * pz;
       const env = excess > 0 ? excess * excess : 0;
-      const wide = Math.abs(x[b]) - 0.2 - 0.6 * Math.max(0, x[b + 1]);
+      const wide = Math.abs(x[b]) - w.coneBase - w.coneSlope * pz;
       const cone = wide > 0 ? wide * wide : 0;
+      const tilt = Math.abs(x[b + 2]) - w.bankAngle;
+      const bank = tilt > 0 ? tilt * tilt : 0;
       out[oo + k] +=
         stateCost(x, b) +
         w.thrust * (du0 * du0 + du1 * du1) +
         w.envelope * env +
         w.cone * cone +
-        (x[b + 1] > 0 ? w.airborne : 0);
+        w.bank * bank +
+        w.airborne;
     }
   },
   terminal(x, xo, count, out, oo): void {
-    for (let k = 0; k < count; k++)
-      out[oo + k] += DRONE_WEIGHTS.terminal * stateCost(x, xo + k * N);
+    for (let k = 0; k < count; k++) {
+      const b = xo + k * N;
+      out[oo + k] +=
+        x[b + 1] <= 0 ? landedCost(x, b) : DRONE_WEIGHTS.terminal * stateCost(x, b);
+    }
   },
 };
 
-/** The controller's model: the drone without gusts and without the roof. */
-export function droneModel(dt: number): Dynamics {
-  const rk = new DroneRk4(dt);
+/**
+ * The controller's model: the drone without gusts. With `roof` (the default) the roof is in the
+ * model: touchdown (p_z reaching 0) is an absorbing state, as in the plant, so a planned sequence
+ * that lands is scored on its touchdown. `roof: false` gives the free-flight model (used for
+ * linearization).
+ */
+export function droneModel(dt: number, roof = true): Dynamics {
+  const rk = new DroneRk4(dt, roof);
   return {
     stateSize: N,
     controlSize: M,
@@ -239,7 +327,7 @@ export function droneModel(dt: number): Dynamics {
  * out, so LQR sees only the quadratic part of the task.
  */
 export function droneLinearQuadratic(dt: number): LinearQuadratic {
-  const model = droneModel(dt);
+  const model = droneModel(dt, false);
   const h = 1e-6;
   const x = new Float64Array(N);
   const u = new Float64Array(M);
@@ -364,7 +452,7 @@ export function parcelDrone(params: ParamValues = {}): BenchProblem {
   const dt = num("dt");
   const steps = num("steps");
   const model = droneModel(dt);
-  const plantRk = new DroneRk4(dt);
+  const plantRk = new DroneRk4(dt, false);
   const bounds: ControlBounds = {
     lower: new Float64Array([0, 0]),
     upper: new Float64Array([DRONE_PARAMETERS.maxThrust, DRONE_PARAMETERS.maxThrust]),

@@ -397,7 +397,7 @@ function v8MathNs(calls: number, reps: number): Record<string, number> {
 // ---------------------------------------------------------------- the suite
 
 async function run(ctx: SuiteContext): Promise<SuiteOutput> {
-  const reps = ctx.quick ? 2 : 5;
+  const reps = ctx.quick ? 2 : 7;
   const warmup = ctx.quick ? 2 : 5;
   const lines: string[] = [];
   const native = buildNative();

@@ -55,6 +55,15 @@ describe("createController", () => {
     }
   });
 
+  it("gives bit-identical results with buffers on SharedArrayBuffers", () => {
+    const a = trace(base(), 4);
+    const b = trace(base({ sharedMemory: true }), 4);
+    for (let t = 0; t < 4; t++) expect(bitEqual(a[t], b[t])).toBe(true);
+    const ctrl = createController(base({ sharedMemory: true }));
+    expect(ctrl.sampled.buffer).toBeInstanceOf(SharedArrayBuffer);
+    expect(ctrl.costs.buffer).toBeInstanceOf(SharedArrayBuffer);
+  });
+
   it("keeps the plan within the bounds and returns its first control", () => {
     const ctrl = createController(base({ plan: gaussianPlan({ std: 10 }), loss: expectedCost() }));
     for (let t = 0; t < 5; t++) {

@@ -24,7 +24,7 @@ import type { PlanDistribution, PlanFamily } from "./distributions/types.js";
 import { requireObject } from "./internal/input.js";
 import type { GeometryFamily, ObjectiveFamily, PlanObjective } from "./losses/objective.js";
 import type { SampleLoss } from "./losses/types.js";
-import { createRollout, type Rollout } from "./rollout.js";
+import { createRollout, float64Buffer, type Rollout } from "./rollout.js";
 import { type DynamicStep, shiftPlan } from "./shift.js";
 
 /** A step size: a constant γ ∈ (0, 1], or a schedule γ(round, iteration) returning one. */
@@ -79,6 +79,12 @@ export interface ControllerParts {
    * @defaultValue true
    */
   readonly timing?: boolean;
+  /**
+   * Put the sample, state, cost and weight buffers on SharedArrayBuffers (for worker threads that
+   * process slices in place; the computation itself is unchanged).
+   * @defaultValue false
+   */
+  readonly sharedMemory?: boolean;
 }
 
 /** What one control step reports. Fields are overwritten by the next `act`. */
@@ -183,7 +189,8 @@ export interface Controller extends Observable {
  * Regret hook: the controller is {@link Observable}; after each control step it emits a
  * {@link RoundRecord} with `decision` = the plan mean θ_t before the update (H·m) and `loss` = ℓ̂_t,
  * the loss estimated from the first iteration's samples at θ_t (see each loss's documentation);
- * with an objective also `gradient` = ∇J(θ_t) and `lossObject` = J for this state.
+ * with an objective also `gradient` = ∇J(θ_t) (at the plan before the first iteration) and
+ * `lossObject` = J for this state.
  *
  * Failures: a sample whose rollout fails gets cost +∞ and weight 0 (counted in the report); if no
  * sample of an iteration is usable that iteration's update is skipped, and if all are, the previous
@@ -243,6 +250,9 @@ export function createController(parts: ControllerParts): Controller {
     );
   }
   const [lower, upper] = parseBounds(fn, parts.bounds, m);
+  const shared = parts.sharedMemory ?? false;
+  if (typeof shared !== "boolean")
+    throw new RecedeError("type", fn, "sharedMemory", "a boolean", shared);
   const loss = parts.loss;
   if (loss === null || typeof loss !== "object") {
     throw new RecedeError("type", fn, "loss", "a sample loss or an objective", loss);
@@ -290,7 +300,15 @@ export function createController(parts: ControllerParts): Controller {
         `n = ${cost.stateSize}, m = ${cost.controlSize}`,
       );
     }
-    rollout = createRollout({ dynamics: dyn, cost, samples, horizon, lower, upper });
+    rollout = createRollout({
+      dynamics: dyn,
+      cost,
+      samples,
+      horizon,
+      lower,
+      upper,
+      sharedMemory: shared,
+    });
   } else {
     if (!dist.meanIsParameter) {
       throw new RecedeError(
@@ -351,6 +369,7 @@ export function createController(parts: ControllerParts): Controller {
     shift,
     root,
     timing,
+    shared,
   );
 }
 
@@ -437,6 +456,7 @@ class GenericController implements Controller {
   private readonly gammas: Float64Array;
   private readonly decision: Float64Array;
   private readonly grad: Float64Array;
+  private readonly firstGrad: Float64Array;
   private readonly stateBuf: Float64Array;
   private readonly backup: Float64Array[];
   private readonly control: Float64Array;
@@ -466,6 +486,7 @@ class GenericController implements Controller {
     private readonly shift: DynamicStep,
     root: Stream,
     private readonly timing: boolean,
+    shared: boolean,
   ) {
     const len = horizon * controlSize;
     this.actName = `${name}.act`;
@@ -477,12 +498,13 @@ class GenericController implements Controller {
       this.streams.push(st);
       this.initialStreams.push(st.getState());
     }
-    this.sampled = new Float64Array(rollout === null ? 0 : samples * len);
-    this.weights = new Float64Array(samples);
+    this.sampled = float64Buffer(rollout === null ? 0 : samples * len, shared);
+    this.weights = float64Buffer(samples, shared);
     this.costs = rollout === null ? new Float64Array(samples) : rollout.costs;
     this.gammas = new Float64Array(iterations);
     this.decision = new Float64Array(len);
     this.grad = new Float64Array(len);
+    this.firstGrad = new Float64Array(len);
     this.stateBuf = new Float64Array(stateSize);
     this.backup = distribution.blocks.map((b) => new Float64Array(b.data.length));
     this.control = new Float64Array(controlSize);
@@ -574,8 +596,9 @@ class GenericController implements Controller {
     rep.weightEntropy = Number.NaN;
     try {
       for (let it = 0; it < this.iterations; it++) {
-        if (this.loss !== null) this.sampleStep(x, gammas[it], it === 0);
-        else this.objectiveStep(x, gammas[it], it === 0);
+        // The iteration index, not γ, is passed: a non-integer double argument would be boxed.
+        if (this.loss !== null) this.sampleStep(x, it);
+        else this.objectiveStep(x, it);
       }
       rep.updated = rep.skippedIterations < this.iterations;
       const ctl = this.control;
@@ -586,7 +609,7 @@ class GenericController implements Controller {
         const rec = this.record;
         rec.round = round;
         rec.loss = rep.loss;
-        rec.gradient = this.objective !== null ? this.grad : undefined;
+        rec.gradient = this.objective !== null ? this.firstGrad : undefined;
         rec.lossObject = this.lossObject;
         this.observers.emit(rec as RoundRecord);
       }
@@ -601,7 +624,9 @@ class GenericController implements Controller {
     return this.result;
   }
 
-  private sampleStep(x: Float64Array, gamma: number, first: boolean): void {
+  private sampleStep(x: Float64Array, it: number): void {
+    const gamma = this.gammas[it];
+    const first = it === 0;
     const rollout = this.rollout!;
     const loss = this.loss!;
     const dist = this.distribution;
@@ -660,7 +685,9 @@ class GenericController implements Controller {
     if (dist.meanIsParameter) this.clipMean();
   }
 
-  private objectiveStep(x: Float64Array, gamma: number, first: boolean): void {
+  private objectiveStep(x: Float64Array, it: number): void {
+    const gamma = this.gammas[it];
+    const first = it === 0;
     const obj = this.objective!;
     const dist = this.distribution;
     const g = this.grad;
@@ -674,6 +701,7 @@ class GenericController implements Controller {
       rep.loss = value;
       rep.effectiveSampleSize = 1;
       rep.weightEntropy = 0;
+      this.firstGrad.set(g);
     }
     if (!ok) {
       rep.failedSamples++;

@@ -97,3 +97,9 @@ export {
   type SpreadFill,
   shiftPlan,
 } from "./shift.js";
+export {
+  type EssTemperatureLoss,
+  type EssTemperatureOptions,
+  essTemperature,
+} from "./variants/essTemperature.js";
+export { type ReuseBestOptions, reuseBest } from "./variants/reuseBest.js";

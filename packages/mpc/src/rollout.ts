@@ -21,6 +21,12 @@ export interface RolloutOptions {
   readonly lower?: Float64Array;
   /** Upper control bounds (length m; +Infinity for none). @defaultValue unbounded */
   readonly upper?: Float64Array;
+  /**
+   * Allocate the costs, failure flags and states on a SharedArrayBuffer, so worker threads can
+   * write their slices in place.
+   * @defaultValue false
+   */
+  readonly sharedMemory?: boolean;
 }
 
 /**
@@ -102,7 +108,15 @@ export function createRollout(options: RolloutOptions): Rollout {
   const h = requireInteger(FN, "horizon", options.horizon, 1);
   const lower = options.lower ?? new Float64Array(m).fill(Number.NEGATIVE_INFINITY);
   const upper = options.upper ?? new Float64Array(m).fill(Number.POSITIVE_INFINITY);
-  return new RolloutEngine(dyn, cost, n, m, k, h, lower, upper);
+  const shared = options.sharedMemory ?? false;
+  if (typeof shared !== "boolean")
+    throw new RecedeError("type", FN, "sharedMemory", "a boolean", shared);
+  return new RolloutEngine(dyn, cost, n, m, k, h, lower, upper, shared);
+}
+
+/** A Float64Array of `length` zeros, on a SharedArrayBuffer when `shared`. */
+export function float64Buffer(length: number, shared: boolean): Float64Array {
+  return shared ? new Float64Array(new SharedArrayBuffer(8 * length)) : new Float64Array(length);
 }
 
 class RolloutEngine implements Rollout {
@@ -121,11 +135,12 @@ class RolloutEngine implements Rollout {
     readonly horizon: number,
     private readonly lower: Float64Array,
     private readonly upper: Float64Array,
+    shared: boolean,
   ) {
-    this.costs = new Float64Array(samples);
-    this.failed = new Uint8Array(samples);
-    this.states = new Float64Array(samples * stateSize);
-    this.controls = new Float64Array(samples * controlSize);
+    this.costs = float64Buffer(samples, shared);
+    this.failed = shared ? new Uint8Array(new SharedArrayBuffer(samples)) : new Uint8Array(samples);
+    this.states = float64Buffer(samples * stateSize, shared);
+    this.controls = float64Buffer(samples * controlSize, shared);
     let bounded = false;
     for (let j = 0; j < controlSize; j++) {
       if (lower[j] > Number.NEGATIVE_INFINITY || upper[j] < Number.POSITIVE_INFINITY)

@@ -224,12 +224,17 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
   const cartAcc = (s: number, c: number, w: number, F: number, thdd: number): number =>
     (F + mpl * (w * w * s - thdd * c)) * invM;
   const acc = new Float64Array(3);
+  // (θ, θ̇, F) handed to accelSigned through an array: doubles passed as arguments to a call V8
+  // does not inline would be boxed (allocated) on every call
+  const fa = new Float64Array(3);
   /**
-   * acc[0] ← ẍ, acc[1] ← θ̈ with friction, for σ = sgn(N_c ẋ) given (Florian 2007, with the
-   * denominator (cos θ − μ_c σ sin θ) of MATH.md §7.1), and acc[2] ← the normal force N_c.
-   * (Results go through `acc`, not return values, so a non-inlined call allocates no number.)
+   * acc[0] ← ẍ, acc[1] ← θ̈ with friction at (θ, θ̇, F) = fa, for σ = sgn(N_c ẋ) given (Florian
+   * 2007, with the denominator (cos θ − μ_c σ sin θ) of MATH.md §7.1), and acc[2] ← N_c.
    */
-  const accelSigned = (th: number, w: number, F: number, sig: number): void => {
+  const accelSigned = (sig: number): void => {
+    const th = fa[0];
+    const w = fa[1];
+    const F = fa[2];
     const s = Math.sin(th);
     const c = Math.cos(th);
     const num =
@@ -242,15 +247,22 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
     acc[1] = thdd;
     acc[2] = nc;
   };
-  /** σ = sgn(N_c ẋ): assume N_c > 0, flip if the resulting N_c is negative (Florian 2007). */
-  const frictionSign = (th: number, w: number, v: number, F: number): number => {
-    const sv = v > 0 ? 1 : v < 0 ? -1 : 0;
-    if (sv === 0 || muC === 0) return sv;
-    accelSigned(th, w, F, sv);
-    return acc[2] >= 0 ? sv : -sv;
+  /**
+   * Accelerations with friction at fa for a cart moving with sign sv = sgn(ẋ): σ = sgn(N_c ẋ) is
+   * found by assuming N_c > 0 and re-solving with −sv if that gives N_c < 0 (Florian 2007).
+   * Returns σ.
+   */
+  const accelWithFriction = (sv: number): number => {
+    accelSigned(sv);
+    if (sv === 0 || muC === 0 || acc[2] >= 0) return sv;
+    accelSigned(-sv);
+    return -sv;
   };
-  /** acc[0] ← ẍ, acc[1] ← θ̈ at (θ, θ̇, ẋ) under force F. */
-  const accel = (th: number, w: number, v: number, F: number): void => {
+  /** acc[0] ← ẍ, acc[1] ← θ̈ at state x[xo..] under force u[uo]. */
+  const accelAt = (x: Float64Array, xo: number, u: Float64Array, uo: number): void => {
+    const th = x[xo + 2];
+    const w = x[xo + 3];
+    const F = u[uo];
     if (frictionless) {
       const s = Math.sin(th);
       const c = Math.cos(th);
@@ -259,8 +271,13 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
       acc[1] = thdd;
       return;
     }
-    accelSigned(th, w, F, frictionSign(th, w, v, F));
+    fa[0] = th;
+    fa[1] = w;
+    fa[2] = F;
+    const v = x[xo + 1];
+    accelWithFriction(v > 0 ? 1 : v < 0 ? -1 : 0);
   };
+  const forceScratch = new Float64Array(1);
   // central-difference partials for the friction model, with σ frozen at the base point
   const fdBase = new Float64Array(4);
   const fdPlus = new Float64Array(2);
@@ -275,7 +292,10 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
     fu: Float64Array,
   ): void => {
     for (let i = 0; i < 4; i++) fdBase[i] = x[xo + i];
-    const sig = frictionSign(fdBase[2], fdBase[3], fdBase[1], F);
+    fa[0] = fdBase[2];
+    fa[1] = fdBase[3];
+    fa[2] = F;
+    const sig = accelWithFriction(fdBase[1] > 0 ? 1 : fdBase[1] < 0 ? -1 : 0);
     fx.fill(0);
     fu.fill(0);
     fx[1] = 1;
@@ -285,9 +305,10 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
       const base = j === 4 ? F : fdBase[j];
       const step = 1e-6 * Math.max(1, Math.abs(base));
       const at = (delta: number, out: Float64Array): void => {
-        const th = j === 2 ? fdBase[2] + delta : fdBase[2];
-        const w = j === 3 ? fdBase[3] + delta : fdBase[3];
-        accelSigned(th, w, j === 4 ? F + delta : F, sig);
+        fa[0] = j === 2 ? fdBase[2] + delta : fdBase[2];
+        fa[1] = j === 3 ? fdBase[3] + delta : fdBase[3];
+        fa[2] = j === 4 ? F + delta : F;
+        accelSigned(sig);
         out[0] = acc[0];
         out[1] = acc[1];
       };
@@ -309,7 +330,7 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
     n: 4,
     m: 1,
     deriv(x, xo, u, uo, out, oo): void {
-      accel(x[xo + 2], x[xo + 3], x[xo + 1], u[uo]);
+      accelAt(x, xo, u, uo);
       out[oo] = x[xo + 1];
       out[oo + 1] = acc[0];
       out[oo + 2] = x[xo + 3];
@@ -494,7 +515,8 @@ export function cartPole(options: CartPoleOptions = {}): CartPoleProblem {
     success: (states, count) => assess(states, count).success,
     assess,
     accelerations(x, o, force, out, oo): void {
-      accel(x[o + 2], x[o + 3], x[o + 1], force);
+      forceScratch[0] = force;
+      accelAt(x, o, forceScratch, 0);
       out[oo] = acc[0];
       out[oo + 1] = acc[1];
     },

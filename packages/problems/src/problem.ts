@@ -89,8 +89,10 @@ export interface Problem {
   readonly dt: number;
   /**
    * The batched discrete-time model x_{t+1} = f(x_t, u_t, t), with analytic Jacobians (of the
-   * discrete step itself). `step` keeps each sample's integrator stages in local variables, so it
-   * needs no scratch buffer, allocates nothing and works for any `count` without growing anything.
+   * discrete step itself). `step` works sample by sample, keeping the integrator stages in local
+   * variables (or, for model variants on the generic RK4 loop such as the cart-pole with friction,
+   * in a 5n scratch made at construction), so it allocates nothing per call and needs no capacity:
+   * any `count` works without growing a buffer.
    */
   readonly dynamics: Dynamics;
   /** The batched running + terminal cost the problem is scored with. */

@@ -1,4 +1,5 @@
 import fc from "fast-check";
+import ndarray from "ndarray";
 import { describe, expect, it } from "vitest";
 import { RecedeError } from "../errors.js";
 import { discreteLyapunov, spectralRadius } from "./lyapunov.js";
@@ -83,6 +84,21 @@ describe("discreteLyapunov", () => {
       1 / 0.19,
       11,
     );
+  });
+
+  it("accepts ndarray views, including a transposed (strided) one", () => {
+    const a = [
+      [0.5, 0.2],
+      [-0.1, 0.3],
+    ];
+    const q = [
+      [2, 0.5],
+      [0.5, 1],
+    ];
+    const ref = discreteLyapunov(a, q).data;
+    const aT = ndarray(new Float64Array([0.5, -0.1, 0.2, 0.3]), [2, 2]).transpose(1, 0);
+    const x = discreteLyapunov(aT, ndarray(new Float64Array([2, 0.5, 0.5, 1]), [2, 2])).data;
+    expect(Array.from(x)).toEqual(Array.from(ref));
   });
 
   it("rejects ρ(A) ≥ 1 and bad shapes with typed errors, naming ρ", () => {

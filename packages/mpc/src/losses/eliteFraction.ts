@@ -38,7 +38,10 @@ export function eliteFraction(options: EliteFractionOptions): SampleLoss {
   return new EliteFraction(rho);
 }
 
-/** Number of elites for K samples and fraction ρ. */
+/**
+ * Number of elites K_e = min(K, max(1, round(ρK))) for K samples and elite fraction ρ (rounding to
+ * the nearest integer; common practice, Rubinstein & Kroese, "The Cross-Entropy Method", 2004).
+ */
 export function eliteCount(fraction: number, count: number): number {
   return Math.min(count, Math.max(1, Math.round(fraction * count)));
 }

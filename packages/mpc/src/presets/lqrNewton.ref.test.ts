@@ -160,3 +160,28 @@ describe("Newton-step MPC vs receding-horizon Riccati on the double integrator",
     expect(Math.abs(a.meanCost - b.meanCost)).toBeLessThan(1e-9 * b.meanCost);
   });
 });
+
+describe("round records of the Newton-step controller", () => {
+  it("carry ℓ_t(θ_t), ∇ℓ_t(θ_t) and ℓ_t itself, so regret can be computed against U*", () => {
+    const c = fixture.cases[1];
+    const { dynamics, cost } = parts(c);
+    const ctrl = lqrNewton({ dynamics, cost, horizon: c.horizon, mean: 0.1 });
+    let checked = false;
+    ctrl.observe((r) => {
+      expect(r.round).toBe(1);
+      expect(Array.from(r.decision).every((u) => u === 0.1)).toBe(true);
+      expect(r.lossObject).toBeDefined();
+      const lo = r.lossObject!;
+      expect(lo.value(r.decision)).toBe(r.loss);
+      const g = lo.gradient(r.decision, new Float64Array(r.decision.length));
+      expect(Array.from(g)).toEqual(Array.from(r.gradient!));
+      // The comparator U* (fixture) has loss J* ≤ ℓ_t(θ_t): instantaneous regret ≥ 0.
+      const jStar = lo.value(Float64Array.from(c.controls));
+      expect(Math.abs(jStar - c.cost)).toBeLessThan(1e-9 * Math.max(1, c.cost));
+      expect(r.loss).toBeGreaterThan(jStar);
+      checked = true;
+    });
+    ctrl.act(Float64Array.from(c.x0));
+    expect(checked).toBe(true);
+  });
+});

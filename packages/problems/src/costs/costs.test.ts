@@ -73,6 +73,23 @@ describe("quadraticCost", () => {
     expect(() => c.setStart(-1)).toThrow(RecedeError);
   });
 
+  it("replaces the reference in place, keeping the old one on bad input", () => {
+    const c = quadraticCost({ stateSize: 2, controlSize: 1, q: 1, r: 1, reference: [1, 1] });
+    const cost = () => {
+      const o = new Float64Array(1);
+      c.running(new Float64Array([0, 0]), 0, new Float64Array([0]), 0, 1, 0, o, 0);
+      return o[0];
+    };
+    expect(cost()).toBe(2);
+    c.setReference([3, 0], [2]);
+    expect(cost()).toBe(9 + 4);
+    expect(() => c.setReference([1, 2, 3])).toThrow(
+      /QuadraticCost.setReference: reference must be of length 2/,
+    );
+    expect(() => c.setReference([0, 0], [Number.NaN])).toThrow(/controlReference\[0\]/);
+    expect(cost()).toBe(13); // untouched by the failed calls
+  });
+
   it("rejects bad weights and references with typed errors naming the option", () => {
     expect(() => quadraticCost({ stateSize: 2, controlSize: 1, q: [1, 2, 3], r: 1 })).toThrow(
       /quadraticCost: q must be a diagonal of length 2/,

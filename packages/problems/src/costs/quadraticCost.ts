@@ -63,6 +63,12 @@ export interface QuadraticCost extends CostModel {
    * horizon tracker calls `setStart(k)` before planning at episode step k.
    */
   setStart(start: number): void;
+  /**
+   * Replace the state reference (and optionally the control reference) in place, e.g. when the goal
+   * moves. Lengths must equal those given at construction (nothing is reallocated); on bad input a
+   * typed error is thrown and the old reference is kept.
+   */
+  setReference(reference: ArrayLike<number>, controlReference?: ArrayLike<number>): void;
 }
 
 /**
@@ -136,6 +142,17 @@ function parseTrajectory(
   return out;
 }
 
+function checkSameLength(fn: string, arg: string, v: ArrayLike<number>, len: number): void {
+  if (v === null || typeof v !== "object" || v.length !== len) {
+    throw new RecedeError("dimension", fn, arg, `of length ${len} (as at construction)`, v);
+  }
+  for (let i = 0; i < len; i++) {
+    if (typeof v[i] !== "number" || !Number.isFinite(v[i])) {
+      throw new RecedeError("non-finite", fn, `${arg}[${i}]`, "finite", v[i]);
+    }
+  }
+}
+
 function isDiagonal(n: number, w: Float64Array): boolean {
   for (let i = 0; i < n; i++) {
     for (let j = 0; j < n; j++) if (i !== j && w[i * n + j] !== 0) return false;
@@ -201,6 +218,19 @@ class QuadraticCostImpl implements QuadraticCost {
 
   setStart(start: number): void {
     this.start = requireInteger("QuadraticCost.setStart", "start", start, 0);
+  }
+
+  setReference(reference: ArrayLike<number>, controlReference?: ArrayLike<number>): void {
+    const fn = "QuadraticCost.setReference";
+    // validate everything before writing anything
+    checkSameLength(fn, "reference", reference, this.ref.length);
+    if (controlReference !== undefined && this.controlSize > 0) {
+      checkSameLength(fn, "controlReference", controlReference, this.uref.length);
+    }
+    for (let i = 0; i < this.ref.length; i++) this.ref[i] = reference[i];
+    if (controlReference !== undefined && this.controlSize > 0) {
+      for (let i = 0; i < this.uref.length; i++) this.uref[i] = controlReference[i];
+    }
   }
 
   running(
