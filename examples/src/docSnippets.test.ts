@@ -18,12 +18,19 @@ function blocks(file: string): string[] {
   return out;
 }
 
-const files = ["README.md", ...readdirSync(join(root, "docs/guides")).map((f) => `docs/guides/${f}`)]
+const files = [
+  "README.md",
+  ...readdirSync(join(root, "docs/guides")).map((f) => `docs/guides/${f}`),
+]
   .filter((f) => f.endsWith(".md"))
   .sort();
 
 const cases: Array<[string, number, string]> = [];
-for (const f of files) blocks(f).forEach((code, i) => cases.push([f, i, code]));
+for (const f of files) {
+  blocks(f).forEach((code, i) => {
+    cases.push([f, i, code]);
+  });
+}
 
 describe("documentation snippets", () => {
   mkdirSync(outDir, { recursive: true });

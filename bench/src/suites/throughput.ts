@@ -13,8 +13,10 @@
  * how close JavaScript can get to C on these trigonometry-bound rollouts.
  *
  * Each timed run is a closed loop on the model itself: `warmup` untimed steps, then `steps` timed
- * steps, each followed by advancing the state with the applied control. Figures are medians over
- * repetitions; `ratio` = library / native.
+ * steps, each followed by advancing the state with the applied control. Rates are medians over
+ * repetitions. `ratio` = library / native is the median over repetitions of the ratio within each
+ * repetition (the two runs of a repetition are adjacent in time, so a change of background load
+ * between repetitions cancels); `ratio_of_medians` is the other estimate.
  *
  * @module
  */
@@ -209,6 +211,11 @@ function ceilingRun(mc: ModelCase, warmup: number, steps: number): Timed {
   return { ...rate, plan: new Float64Array(ref.mean), state: x };
 }
 
+/** Median over repetitions of a[r] / b[r]. */
+function pairedRatio(a: readonly number[], b: readonly number[]): number {
+  return median(a.map((v, r) => v / b[r]));
+}
+
 function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
   let d = 0;
   for (let i = 0; i < a.length; i++) d = Math.max(d, Math.abs(a[i] - b[i]));
@@ -397,7 +404,7 @@ function v8MathNs(calls: number, reps: number): Record<string, number> {
 // ---------------------------------------------------------------- the suite
 
 async function run(ctx: SuiteContext): Promise<SuiteOutput> {
-  const reps = ctx.quick ? 2 : 7;
+  const reps = ctx.quick ? 2 : 9;
   const warmup = ctx.quick ? 2 : 5;
   const lines: string[] = [];
   const native = buildNative();
@@ -407,8 +414,8 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
   const loadBefore = loadavg()[0];
   const models: Record<string, unknown>[] = [];
   for (const mc of cases()) {
-    // Steps per timed run: about half a second of library work per repetition.
-    const steps = ctx.quick ? 3 : mc.model === "bicycle" ? 40 : 16;
+    // Steps per timed run: a few tenths of a second of library work per repetition.
+    const steps = ctx.quick ? 3 : mc.model === "bicycle" ? 24 : 16;
     // Same-work check: three steps from the same seed and state, plans compared.
     const checkSteps = 3;
     const lib0 = libraryRun(mc, 0, checkSteps);
@@ -448,17 +455,18 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
       horizon: HORIZON,
       library_steps_per_s: round(libMed),
       native_steps_per_s: natMed === null ? null : round(natMed),
-      ratio: natMed === null ? null : round(libMed / natMed, 3),
+      ratio: natMed === null ? null : round(pairedRatio(lib, nat), 3),
+      ratio_of_medians: natMed === null ? null : round(libMed / natMed, 3),
       js_ceiling_steps_per_s: round(jsMed),
-      js_ceiling_ratio: natMed === null ? null : round(jsMed / natMed, 3),
-      library_vs_js_ceiling: round(libMed / jsMed, 3),
+      js_ceiling_ratio: natMed === null ? null : round(pairedRatio(js, nat), 3),
+      library_vs_js_ceiling: round(pairedRatio(lib, js), 3),
       library_ms_per_step: round(1000 / libMed),
       cpu_time: {
         library_steps_per_cpu_s: round(libCpuMed),
         native_steps_per_cpu_s: natCpuMed === null ? null : round(natCpuMed),
-        ratio: natCpuMed === null ? null : round(libCpuMed / natCpuMed, 3),
+        ratio: natCpuMed === null ? null : round(pairedRatio(libCpu, natCpu), 3),
         js_ceiling_steps_per_cpu_s: round(jsCpuMed),
-        js_ceiling_ratio: natCpuMed === null ? null : round(jsCpuMed / natCpuMed, 3),
+        js_ceiling_ratio: natCpuMed === null ? null : round(pairedRatio(jsCpu, natCpu), 3),
       },
       repetitions: reps,
       timed_steps_per_repetition: steps,
