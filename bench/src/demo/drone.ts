@@ -30,6 +30,7 @@
  */
 import type { ControlBounds, CostModel, Dynamics, Stream } from "@recede/core";
 import type { LinearQuadratic } from "@recede/problems";
+import type { TrackingReference, TrackingReferenceSource } from "../optimizers/mpc.js";
 import type { ParamSchemaMap, ParamValues } from "../params.js";
 import type { BenchProblem, ProblemDefinition } from "../registry.js";
 
@@ -169,7 +170,7 @@ export const DRONE_WEIGHTS: {
   readonly touchdownExcess: number;
   readonly touchdownMargin: number;
 } = Object.freeze({
-  position: 1,
+  position: 4,
   height: 2,
   tilt: 10,
   velocity: 0.3,
@@ -188,9 +189,9 @@ export const DRONE_WEIGHTS: {
   /** c₁: widening of the cone per metre of height. */
   coneSlope: 0.6,
   /** Weight w_b of the squared excess of |θ| over the bank angle θ_b. */
-  bank: 100,
-  /** θ_b, rad (20°): tilt above which banking is penalized steeply (violations start at 30°). */
-  bankAngle: (20 * Math.PI) / 180,
+  bank: 2000,
+  /** θ_b, rad (15°): tilt above which banking is penalized steeply (violations start at 30°). */
+  bankAngle: (15 * Math.PI) / 180,
   /** Cost per step while airborne (p_z > 0): the price of time in the air (battery, schedule). */
   airborne: 2,
   /** Terminal weight w_H on the state part q(x) when the horizon ends in the air. */
@@ -297,8 +298,7 @@ export const droneCost: CostModel = {
   terminal(x, xo, count, out, oo): void {
     for (let k = 0; k < count; k++) {
       const b = xo + k * N;
-      out[oo + k] +=
-        x[b + 1] <= 0 ? landedCost(x, b) : DRONE_WEIGHTS.terminal * stateCost(x, b);
+      out[oo + k] += x[b + 1] <= 0 ? landedCost(x, b) : DRONE_WEIGHTS.terminal * stateCost(x, b);
     }
   },
 };
@@ -380,6 +380,77 @@ export function droneLinearQuadratic(dt: number): LinearQuadratic {
   };
 }
 
+/** Settings of the drone's glide path (see {@link droneGlidePath}). */
+export interface GlidePathSettings {
+  /** Height of the gate above the pad where the vertical descent starts, m. @defaultValue 1 */
+  readonly gateHeight?: number;
+  /** Setpoint speed along the approach to the gate, m/s. @defaultValue 1.2 */
+  readonly approachSpeed?: number;
+  /** Setpoint descent speed below the gate, m/s. @defaultValue 0.4 */
+  readonly descentSpeed?: number;
+  /**
+   * Largest position error ‖p − r‖ at which the setpoint still advances, m; beyond it the setpoint
+   * waits for the drone. @defaultValue 0.6
+   */
+  readonly maxLag?: number;
+}
+
+/**
+ * The drone's glide path to the pad as a moving setpoint for a tracking controller: a straight
+ * approach from the start position to a gate `gateHeight` above the pad centre at `approachSpeed`,
+ * then a vertical descent at `descentSpeed` that continues to `aimHeight` below the roof, so the
+ * drone touches down at about the descent speed. The reference state is
+ * r = (p_x^r, p_z^r, 0, v_x^r, v_z^r, 0), its velocity the setpoint's own.
+ *
+ * The setpoint advances only while the drone is within `maxLag` of it, and otherwise waits: a
+ * simple reference governor, which keeps the tracking error, and so the feedback u = ū − K(x − r),
+ * small enough to stay clear of the thrust limits after a gust. (Reference governors: E. G.
+ * Gilbert, I. Kolmanovsky, K. T. Tan, "Discrete-time reference governors and the nonlinear control
+ * of systems with state and control constraints", Int. J. Robust Nonlinear Control, 1995, from
+ * memory; ours is the elementary rate-limited form, not their admissible-set construction.)
+ */
+export function droneGlidePath(dt: number, settings: GlidePathSettings = {}): TrackingReference {
+  const gate = settings.gateHeight ?? 1;
+  const approach = settings.approachSpeed ?? 1.2;
+  const descent = settings.descentSpeed ?? 0.4;
+  const maxLag = settings.maxLag ?? 0.6;
+  const floor = DRONE_WEIGHTS.aimHeight;
+  let rx = 0;
+  let rz = 0;
+  return {
+    stateSize: N,
+    reset(x0) {
+      rx = x0[0];
+      rz = x0[1];
+    },
+    next(x, out) {
+      let vx = 0;
+      let vz = 0;
+      const lag = Math.hypot(x[0] - rx, x[1] - rz);
+      if (lag <= maxLag) {
+        const dx = -rx;
+        const dz = gate - rz;
+        const d = Math.hypot(dx, dz);
+        if (rz > gate + 1e-9 || Math.abs(rx) > 1e-9) {
+          // Approach: straight to the gate, without passing it.
+          const s = Math.min(approach, d / dt);
+          vx = d > 0 ? (s * dx) / d : 0;
+          vz = d > 0 ? (s * dz) / d : 0;
+        } else if (rz > floor) {
+          vz = -Math.min(descent, (rz - floor) / dt);
+        }
+        rx += vx * dt;
+        rz += vz * dt;
+      }
+      out.fill(0);
+      out[0] = rx;
+      out[1] = rz;
+      out[3] = vx;
+      out[4] = vz;
+    },
+  };
+}
+
 /** One "1 − cos" gust. */
 interface Gust {
   readonly start: number;
@@ -444,7 +515,7 @@ export function drawWind(
 }
 
 /** Build a parcel-drone scenario instance. */
-export function parcelDrone(params: ParamValues = {}): BenchProblem {
+export function parcelDrone(params: ParamValues = {}): BenchProblem & TrackingReferenceSource {
   const num = (k: string): number => {
     const v = params[k] ?? (droneParams[k] as { default?: number }).default;
     return v as number;
@@ -480,6 +551,7 @@ export function parcelDrone(params: ParamValues = {}): BenchProblem {
       control: new Float64Array([HOVER_THRUST, HOVER_THRUST]),
     },
     linearQuadratic: droneLinearQuadratic(dt),
+    trackingReference: () => droneGlidePath(dt),
     initialState(rng: Stream): Float64Array {
       touchdown = undefined;
       const x = new Float64Array(N);

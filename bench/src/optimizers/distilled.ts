@@ -91,6 +91,7 @@ export const distilledDefinition: OptimizerDefinition = {
     const n = problem.stateSize;
     const m = problem.controlSize;
     let step = 0;
+    const scratch = new Float64Array(n);
     const environment = rolloutEnvironment({
       dynamics: problem.model,
       cost: problem.cost,
@@ -100,6 +101,13 @@ export const distilledDefinition: OptimizerDefinition = {
         out.set(problem.initialState(stream), offset);
       },
       disturbanceStd: params.trainingNoise as number,
+      // Training episodes end where the problem's own test ends the plant's (e.g. touchdown), so
+      // the expert labels flight states, not the frozen states after the end. (`finished` is
+      // called with t = −1: training episodes keep their own step count.)
+      terminate: (states, offset) => {
+        for (let i = 0; i < n; i++) scratch[i] = states[offset + i];
+        return problem.finished(scratch, -1);
+      },
     });
     const policy: StochasticPolicy =
       params.policy === "mlp"

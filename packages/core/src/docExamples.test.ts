@@ -20,6 +20,7 @@ const files = [
   "learners/hedge.ts",
   "learners/onlineGradientDescent.ts",
   "matrixInput.ts",
+  "model.ts",
 ];
 
 function examples(file: string): string[] {
@@ -52,6 +53,6 @@ describe("doc examples run", () => {
     });
   }
   it("found the examples", () => {
-    expect(total).toBe(21);
+    expect(total).toBe(22);
   });
 });

@@ -92,6 +92,7 @@ export {
   type CostModel,
   type Dynamics,
   type PointDynamics,
+  requireControlBounds,
 } from "./model.js";
 export {
   type Feedback,

@@ -22,9 +22,11 @@ import {
 import { gaussianPlan } from "./distributions/gaussian.js";
 import type { PlanDistribution, PlanFamily } from "./distributions/types.js";
 import { requireObject } from "./internal/input.js";
+import { float64Buffer } from "./internal/shared.js";
 import type { GeometryFamily, ObjectiveFamily, PlanObjective } from "./losses/objective.js";
 import type { SampleLoss } from "./losses/types.js";
-import { createRollout, float64Buffer, type Rollout } from "./rollout.js";
+import type { RolloutWorkers, SliceExecutor, WorkerBinding } from "./parallel/pool.js";
+import { createRollout, type Rollout } from "./rollout.js";
 import { type DynamicStep, shiftPlan } from "./shift.js";
 
 /** A step size: a constant γ ∈ (0, 1], or a schedule γ(round, iteration) returning one. */
@@ -82,9 +84,18 @@ export interface ControllerParts {
   /**
    * Put the sample, state, cost and weight buffers on SharedArrayBuffers (for worker threads that
    * process slices in place; the computation itself is unchanged).
-   * @defaultValue false
+   * @defaultValue false (true with `workers`)
    */
   readonly sharedMemory?: boolean;
+  /**
+   * Rollout worker threads from {@link startRolloutWorkers}: the slices of each iteration are
+   * sampled, clipped and rolled out across the main thread and the workers (bit-identical to the
+   * main-thread path). `dynamics` and `cost` must then be the pool's own (`pool.dynamics`,
+   * `pool.cost`), which every worker builds from the same recipe. A pool serves one controller.
+   * Only sample losses use the workers.
+   * @defaultValue none (everything on the calling thread)
+   */
+  readonly workers?: RolloutWorkers;
 }
 
 /** What one control step reports. Fields are overwritten by the next `act`. */
@@ -250,7 +261,22 @@ export function createController(parts: ControllerParts): Controller {
     );
   }
   const [lower, upper] = parseBounds(fn, parts.bounds, m);
-  const shared = parts.sharedMemory ?? false;
+  const pool = parts.workers;
+  if (pool !== undefined) {
+    if (pool === null || typeof (pool as unknown as WorkerBinding).bind !== "function") {
+      throw new RecedeError("type", fn, "workers", "a pool from startRolloutWorkers", pool);
+    }
+    if (dyn !== pool.dynamics || cost !== pool.cost) {
+      throw new RecedeError(
+        "state",
+        fn,
+        "dynamics",
+        "the pool's own dynamics and cost (workers.dynamics, workers.cost), which the workers rebuild from its recipe",
+        "another model",
+      );
+    }
+  }
+  const shared = parts.sharedMemory ?? pool !== undefined;
   if (typeof shared !== "boolean")
     throw new RecedeError("type", fn, "sharedMemory", "a boolean", shared);
   const loss = parts.loss;
@@ -277,7 +303,15 @@ export function createController(parts: ControllerParts): Controller {
       family,
     );
   }
-  const dist = family.create({ horizon, controlSize: m, samples, lower, upper, caller: fn });
+  const dist = family.create({
+    horizon,
+    controlSize: m,
+    samples,
+    lower,
+    upper,
+    caller: fn,
+    sharedMemory: shared,
+  });
   const shift = parts.shift ?? shiftPlan();
   if (shift === null || typeof shift !== "object" || typeof shift.apply !== "function") {
     throw new RecedeError("type", fn, "shift", "a dynamic step (shiftPlan, customShift)", shift);
@@ -370,6 +404,7 @@ export function createController(parts: ControllerParts): Controller {
     root,
     timing,
     shared,
+    isSample ? ((pool as unknown as WorkerBinding | undefined) ?? null) : null,
   );
 }
 
@@ -466,6 +501,9 @@ class GenericController implements Controller {
   private readonly lossObject: LossObject | undefined;
   private readonly slices: number;
   private readonly actName: string;
+  private readonly exec: SliceExecutor | null;
+  /** [t0] of the running `act`, so the clock reading stays an unboxed double. */
+  private readonly clock: Float64Array = new Float64Array(1);
 
   constructor(
     readonly name: string,
@@ -487,6 +525,7 @@ class GenericController implements Controller {
     root: Stream,
     private readonly timing: boolean,
     shared: boolean,
+    binding: WorkerBinding | null,
   ) {
     const len = horizon * controlSize;
     this.actName = `${name}.act`;
@@ -542,6 +581,23 @@ class GenericController implements Controller {
       gradient: undefined,
       lossObject: undefined,
     };
+    this.exec =
+      binding === null || rollout === null
+        ? null
+        : binding.bind({
+            fn: this.actName,
+            samples,
+            horizon,
+            sliceSize,
+            slices: this.slices,
+            seed: root.seed,
+            lower,
+            upper,
+            rollout,
+            sampled: this.sampled,
+            distribution,
+            streams: this.streams,
+          });
   }
 
   get round(): number {
@@ -634,12 +690,15 @@ class GenericController implements Controller {
     const size = this.sliceSize;
     const buf = this.sampled;
     let failures = 0;
-    for (let s = 0; s < this.slices; s++) {
-      const from = s * size;
-      const count = from + size <= k ? size : k - from;
-      dist.sample(this.streams[s], from, count, buf);
-      rollout.clip(buf, from, count);
-      failures += rollout.run(x, buf, from, count);
+    if (this.exec !== null) failures = this.exec.run(x);
+    else {
+      for (let s = 0; s < this.slices; s++) {
+        const from = s * size;
+        const count = from + size <= k ? size : k - from;
+        dist.sample(this.streams[s], from, count, buf);
+        rollout.clip(buf, from, count);
+        failures += rollout.run(x, buf, from, count);
+      }
     }
     const rep = this.report;
     rep.failedSamples += failures;
@@ -732,15 +791,18 @@ class GenericController implements Controller {
     for (const b of dist.blocks) b.data.set(b.initial);
     dist.sync();
     for (let s = 0; s < this.slices; s++) this.streams[s].setState(this.initialStreams[s]);
+    this.exec?.resetStreams();
     this.roundCount = 0;
   }
 
   snapshot(): ControllerSnapshot {
+    const streams = this.streams.map((s) => s.getState());
+    this.exec?.dumpStreams(streams);
     return {
       name: this.name,
       round: this.roundCount,
       blocks: this.distribution.blocks.map((b) => new Float64Array(b.data)),
-      streams: this.streams.map((s) => s.getState()),
+      streams,
     };
   }
 
@@ -795,6 +857,7 @@ class GenericController implements Controller {
       }
     }
     requireInteger(fn, "snapshot.round", snapshot.round, 0);
+    this.exec?.loadStreams(snapshot.streams);
     for (let b = 0; b < blocks.length; b++) blocks[b].data.set(snapshot.blocks[b]);
     this.distribution.sync();
     for (let s = 0; s < this.slices; s++) this.streams[s].setState(snapshot.streams[s]);

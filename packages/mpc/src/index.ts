@@ -69,6 +69,12 @@ export {
   linearDynamics,
   linearQuadraticCost,
 } from "./model.js";
+export {
+  type RolloutWorkers,
+  type RolloutWorkersOptions,
+  startRolloutWorkers,
+} from "./parallel/pool.js";
+export type { ModelRecipe } from "./parallel/recipe.js";
 export { type CemOptions, cem } from "./presets/cem.js";
 export { type LqrController, type LqrOptions, lqr } from "./presets/lqr.js";
 export { type LqrNewtonOptions, lqrNewton } from "./presets/lqrNewton.js";
@@ -102,4 +108,5 @@ export {
   type EssTemperatureOptions,
   essTemperature,
 } from "./variants/essTemperature.js";
+export { type LeanMppiOptions, leanMppi } from "./variants/leanMppi.js";
 export { type ReuseBestOptions, reuseBest } from "./variants/reuseBest.js";

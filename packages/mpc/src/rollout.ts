@@ -6,6 +6,7 @@
  */
 import type { CostModel, Dynamics } from "@recede/core";
 import { RecedeError, requireInteger } from "@recede/core";
+import { float64Buffer } from "./internal/shared.js";
 
 /** Options of {@link createRollout}. */
 export interface RolloutOptions {
@@ -114,16 +115,47 @@ export function createRollout(options: RolloutOptions): Rollout {
   return new RolloutEngine(dyn, cost, n, m, k, h, lower, upper, shared);
 }
 
-/** A Float64Array of `length` zeros, on a SharedArrayBuffer when `shared`. */
-export function float64Buffer(length: number, shared: boolean): Float64Array {
-  return shared ? new Float64Array(new SharedArrayBuffer(8 * length)) : new Float64Array(length);
+/** The buffers a rollout engine works in (internal: worker threads adopt the controller's). */
+export interface RolloutBuffers {
+  readonly costs: Float64Array;
+  readonly failed: Uint8Array;
+  readonly states: Float64Array;
+  readonly controls: Float64Array;
+}
+
+/**
+ * A rollout engine working in the given (shared) buffers, for a worker thread that processes its
+ * slices of the controller's rollout in place. Trusts its inputs (internal; validated by the
+ * controller that made the buffers).
+ */
+export function adoptRollout(
+  dynamics: Dynamics,
+  cost: CostModel,
+  samples: number,
+  horizon: number,
+  lower: Float64Array,
+  upper: Float64Array,
+  buffers: RolloutBuffers,
+): Rollout {
+  return new RolloutEngine(
+    dynamics,
+    cost,
+    dynamics.stateSize,
+    dynamics.controlSize,
+    samples,
+    horizon,
+    lower,
+    upper,
+    false,
+    buffers,
+  );
 }
 
 class RolloutEngine implements Rollout {
   readonly costs: Float64Array;
   readonly failed: Uint8Array;
   readonly states: Float64Array;
-  private readonly controls: Float64Array;
+  readonly controls: Float64Array;
   private readonly bounded: boolean;
 
   constructor(
@@ -136,11 +168,14 @@ class RolloutEngine implements Rollout {
     private readonly lower: Float64Array,
     private readonly upper: Float64Array,
     shared: boolean,
+    buffers?: RolloutBuffers,
   ) {
-    this.costs = float64Buffer(samples, shared);
-    this.failed = shared ? new Uint8Array(new SharedArrayBuffer(samples)) : new Uint8Array(samples);
-    this.states = float64Buffer(samples * stateSize, shared);
-    this.controls = float64Buffer(samples * controlSize, shared);
+    this.costs = buffers?.costs ?? float64Buffer(samples, shared);
+    this.failed =
+      buffers?.failed ??
+      (shared ? new Uint8Array(new SharedArrayBuffer(samples)) : new Uint8Array(samples));
+    this.states = buffers?.states ?? float64Buffer(samples * stateSize, shared);
+    this.controls = buffers?.controls ?? float64Buffer(samples * controlSize, shared);
     let bounded = false;
     for (let j = 0; j < controlSize; j++) {
       if (lower[j] > Number.NEGATIVE_INFINITY || upper[j] < Number.POSITIVE_INFINITY)
@@ -230,4 +265,10 @@ class RolloutEngine implements Rollout {
     }
     cost.terminal(x, xo, count, costs, first);
   }
+}
+
+/** The buffers of a rollout engine built here (internal, for handing them to worker threads). */
+export function rolloutBuffers(rollout: Rollout): RolloutBuffers {
+  const e = rollout as unknown as RolloutBuffers;
+  return { costs: e.costs, failed: e.failed, states: e.states, controls: e.controls };
 }

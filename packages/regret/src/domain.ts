@@ -100,8 +100,13 @@ export function ballDomain(center: Float64Array, radius: number): BallDomain {
 }
 
 /**
- * min_{u ∈ X} ⟨Γ, u⟩ in closed form (see the module comment); writes the minimizer into `argmin`
- * when given. Reads Γ = `gamma[offset … offset + d)`. No allocation.
+ * min_{u ∈ X} ⟨Γ, u⟩ in closed form; writes the minimizer into `argmin` when given. Reads
+ * Γ = `gamma[offset … offset + d)`. No allocation.
+ *
+ * Simplex: min_i Γ_i at the vertex e_i (first index on ties); box [a, b]: Σ_i min(a_iΓ_i, b_iΓ_i)
+ * at u_i = a_i if Γ_i ≥ 0, else b_i; ball (c, r): ⟨Γ, c⟩ − r‖Γ‖₂ at u = c − rΓ/‖Γ‖₂ (u = c when
+ * Γ = 0) (MATH.md §1.7). A linear function attains its minimum over a compact convex set at an
+ * extreme point: R. T. Rockafellar, "Convex Analysis", Princeton, 1970, Cor. 32.3.2.
  */
 export function linearMinimum(
   domain: Domain,

@@ -63,7 +63,12 @@ export interface QuadraticMinimumOptions {
 
 /**
  * min ½ uᵀA u + bᵀu + c over ℝ^d or a box, with A (row-major d×d) symmetric positive definite.
- * See the module comment for the method and its convergence criterion.
+ *
+ * Unconstrained: u* = −A⁻¹b by Cholesky. Box [a, b]: projected Newton (Newton step on the free
+ * coordinates, scaled gradient step on the ε-active ones, Armijo backtracking along the projection
+ * arc), stopped when ‖u − Π(u − ∇f(u))‖∞ ≤ `tolerance`·(1 + ‖b‖∞), then an exact re-solve on the
+ * final active set. Source: D. P. Bertsekas, "Projected Newton Methods for Optimization Problems
+ * with Simple Constraints", SIAM J. Control Optim., 1982.
  */
 export function minimizeQuadratic(
   hessian: Float64Array,

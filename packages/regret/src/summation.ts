@@ -31,6 +31,12 @@ export function compensatedAdd(sum: Float64Array, comp: Float64Array, i: number,
 /**
  * Σ_{i<n} x[offset + i·stride] by compensated (TwoSum / Sum2) summation. No allocation.
  *
+ * With s the running sum and c the compensation: t = s + v; b = t − s;
+ * c += (s − (t − b)) + (v − b); s = t; the result is s + c — accurate as if summed in twice the
+ * working precision. Source: T. Ogita, S. M. Rump, S. Oishi, "Accurate Sum and Dot Product", SIAM
+ * J. Sci. Comput., 2005 (Sum2), with Knuth's TwoSum (D. E. Knuth, "The Art of Computer
+ * Programming", Vol. 2, §4.2.2).
+ *
  * @param x - values
  * @param offset - index of the first value
  * @param n - number of values

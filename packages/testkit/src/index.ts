@@ -27,4 +27,10 @@ export {
   type LawRunOptions,
 } from "./law.js";
 export { type LearnerLawRow, learnerLaws, type QuadraticTarget } from "./learnerLaws.js";
+export {
+  type PreparedSnippet,
+  prepareSnippet,
+  type ReadmeSnippet,
+  readmeSnippets,
+} from "./readme.js";
 export { catchRecedeError, type ExpectedError } from "./typedError.js";

@@ -5,6 +5,7 @@
  * @module
  */
 import { requireInteger } from "../errors.js";
+import { generalizedKl } from "../internal/generalizedKl.js";
 import { requireOptions } from "../internal/vectorInput.js";
 import type { Geometry } from "./geometry.js";
 
@@ -63,17 +64,7 @@ class PositiveEntropyImpl implements PositiveEntropyGeometry {
   }
 
   divergence(x: Float64Array, y: Float64Array): number {
-    let s = 0;
-    for (let i = 0; i < this.dimension; i++) {
-      const a = x[i];
-      const b = y[i];
-      if (a > 0) {
-        if (!(b > 0)) return b === 0 ? Number.POSITIVE_INFINITY : Number.NaN;
-        s += a * Math.log(a / b) - a + b;
-      } else if (a === 0) s += b;
-      else return Number.NaN;
-    }
-    return Math.max(s, 0);
+    return generalizedKl(this.dimension, x, y);
   }
 
   mirrorMap(x: Float64Array, out: Float64Array): Float64Array {

@@ -81,7 +81,10 @@ export function choleskySolve(
   return backSubstituteTransposed(n, l, ol, b, ob);
 }
 
-/** y ← A x for the n×n symmetric A (row-major at `oa`; both triangles read). Returns `y`. */
+/**
+ * y ← A x for the n×n symmetric A (row-major at `oa`; both triangles read): the square case of
+ * `gemv`. `y` must not alias `x`. Returns `y`.
+ */
 export function symv(
   n: number,
   a: Float64Array,
@@ -91,13 +94,7 @@ export function symv(
   y: Float64Array,
   oy: number,
 ): Float64Array {
-  for (let i = 0; i < n; i++) {
-    let s = 0;
-    const r = oa + i * n;
-    for (let j = 0; j < n; j++) s += a[r + j] * x[ox + j];
-    y[oy + i] = s;
-  }
-  return y;
+  return gemv(n, n, a, oa, x, ox, y, oy);
 }
 
 /** y ← A x for the r×c matrix A (row-major at `oa`). `y` must not alias `x`. Returns `y`. */

@@ -6,6 +6,7 @@
  */
 import { gaussianDiagonalStep, RecedeError, requireInRange, type Stream } from "@recede/core";
 import { broadcast, requireObject } from "../internal/input.js";
+import { float64Buffer } from "../internal/shared.js";
 import type { PlanBlock, PlanConfig, PlanDistribution, PlanFamily } from "./types.js";
 
 /** Options of {@link gaussianPlan}. */
@@ -126,7 +127,17 @@ export function gaussianPlan(options: GaussianPlanOptions = {}): PlanFamily {
         (x) => x > 0 && Number.isFinite(x),
         "finite and > 0",
       );
-      return new GaussianPlan(h, m, config.samples, mean, std, adapt, minStd, correlation, keep);
+      return new GaussianPlan(
+        h,
+        m,
+        mean,
+        std,
+        adapt,
+        minStd,
+        correlation,
+        keep,
+        config.sharedMemory ?? false,
+      );
     },
   };
 }
@@ -145,25 +156,29 @@ class GaussianPlan implements PlanDistribution {
   /** σ_min² in a one-element array, so hot loops load it as a raw double (no boxing). */
   private readonly minVar: Float64Array;
   private readonly innovation: number;
+  private samplerRecord: GaussianSampler | undefined = undefined;
 
   constructor(
     readonly horizon: number,
     readonly controlSize: number,
-    _samples: number,
     initialMean: Float64Array,
     initialStd: Float64Array,
     private readonly adapt: boolean,
     minStd: number,
     private readonly correlation: number,
     private readonly keepMean: boolean,
+    shared: boolean,
   ) {
     const len = horizon * controlSize;
     this.len = len;
-    this.mean = new Float64Array(initialMean);
+    // μ and σ are what sampling reads: on shared memory when worker threads sample in place.
+    this.mean = float64Buffer(len, shared);
+    this.mean.set(initialMean);
     const initialVar = new Float64Array(len);
     for (let i = 0; i < len; i++) initialVar[i] = initialStd[i] * initialStd[i];
     this.variance = new Float64Array(initialVar);
-    this.std = new Float64Array(initialStd);
+    this.std = float64Buffer(len, shared);
+    this.std.set(initialStd);
     this.targetMean = new Float64Array(len);
     this.targetVar = new Float64Array(len);
     this.minVar = Float64Array.of(minStd * minStd);
@@ -187,25 +202,24 @@ class GaussianPlan implements PlanDistribution {
   }
 
   sample(stream: Stream, first: number, count: number, out: Float64Array): void {
-    const len = this.len;
-    const m = this.controlSize;
-    const mean = this.mean;
-    const std = this.std;
-    stream.fillNormal(out, first * len, count * len);
-    const a = this.correlation;
-    const c = this.innovation;
-    for (let k = first; k < first + count; k++) {
-      const base = k * len;
-      if (a > 0) {
-        // e_t = a e_{t−1} + √(1−a²) z_t, in place, ascending t (e_{t−1} already transformed).
-        for (let p = m; p < len; p++) out[base + p] = a * out[base + p - m] + c * out[base + p];
-      }
-      if (k === 0 && this.keepMean) {
-        for (let p = 0; p < len; p++) out[base + p] = mean[p];
-      } else {
-        for (let p = 0; p < len; p++) out[base + p] = mean[p] + std[p] * out[base + p];
-      }
-    }
+    sampleGaussianRows(this.sampler, stream, first, count, out);
+  }
+
+  /** What a worker thread needs to draw the same samples (see parallel/protocol.ts). */
+  get sampler(): GaussianSampler {
+    const s = this.samplerRecord;
+    if (s !== undefined) return s;
+    this.samplerRecord = {
+      kind: "gaussian",
+      length: this.len,
+      controlSize: this.controlSize,
+      mean: this.mean,
+      std: this.std,
+      correlation: this.correlation,
+      innovation: this.innovation,
+      keepMean: this.keepMean,
+    };
+    return this.samplerRecord;
   }
 
   update(
@@ -283,6 +297,63 @@ class GaussianPlan implements PlanDistribution {
       const x = y >= floor ? y : floor;
       v[p] = x;
       s[p] = Math.sqrt(x);
+    }
+  }
+}
+
+/**
+ * Everything sampling from a Gaussian plan reads, as plain data (structured-cloneable: μ and σ on
+ * SharedArrayBuffers when the plan was built with `sharedMemory`), so a worker thread draws
+ * exactly the samples the plan itself would (internal).
+ */
+export interface GaussianSampler {
+  readonly kind: "gaussian";
+  /** H·m. */
+  readonly length: number;
+  /** m. */
+  readonly controlSize: number;
+  /** μ (H·m), the plan's own buffer. */
+  readonly mean: Float64Array;
+  /** σ (H·m), the plan's own buffer. */
+  readonly std: Float64Array;
+  /** a. */
+  readonly correlation: number;
+  /** √(1 − a²). */
+  readonly innovation: number;
+  /** Sample 0 at the mean. */
+  readonly keepMean: boolean;
+}
+
+/**
+ * Draw samples `first … first+count−1` of a Gaussian plan into `out` (rows of H·m) from `stream`:
+ * U = μ + σ ⊙ e with AR(1) noise e (see {@link gaussianPlan}). The one implementation, used by the
+ * plan and by worker threads alike.
+ */
+export function sampleGaussianRows(
+  g: GaussianSampler,
+  stream: Stream,
+  first: number,
+  count: number,
+  out: Float64Array,
+): void {
+  const len = g.length;
+  const m = g.controlSize;
+  const mean = g.mean;
+  const std = g.std;
+  const a = g.correlation;
+  const c = g.innovation;
+  const keep = g.keepMean;
+  stream.fillNormal(out, first * len, count * len);
+  for (let k = first; k < first + count; k++) {
+    const base = k * len;
+    if (a > 0) {
+      // e_t = a e_{t−1} + √(1−a²) z_t, in place, ascending t (e_{t−1} already transformed).
+      for (let p = m; p < len; p++) out[base + p] = a * out[base + p - m] + c * out[base + p];
+    }
+    if (k === 0 && keep) {
+      for (let p = 0; p < len; p++) out[base + p] = mean[p];
+    } else {
+      for (let p = 0; p < len; p++) out[base + p] = mean[p] + std[p] * out[base + p];
     }
   }
 }

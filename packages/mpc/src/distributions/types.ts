@@ -20,6 +20,12 @@ export interface PlanConfig {
   readonly upper: Float64Array;
   /** Name of the public function building the controller, for error messages. */
   readonly caller: string;
+  /**
+   * Put the parameter buffers that sampling reads on SharedArrayBuffers, so worker threads can
+   * sample from the distribution in place (see `startRolloutWorkers`).
+   * @defaultValue false
+   */
+  readonly sharedMemory?: boolean;
 }
 
 /**

@@ -14,6 +14,7 @@ import { type Controller, createController } from "../controller.js";
 import { gaussianPlan } from "../distributions/gaussian.js";
 import { requireObject } from "../internal/input.js";
 import { eliteFraction } from "../losses/eliteFraction.js";
+import type { RolloutWorkers } from "../parallel/pool.js";
 import { type MeanFill, type SpreadFill, shiftPlan } from "../shift.js";
 
 /** Options of {@link cem}. */
@@ -52,6 +53,8 @@ export interface CemOptions {
   readonly sliceSize?: number;
   /** Measure `report.wallTimeMs` (two clock reads per step; see ControllerParts.timing). @defaultValue true */
   readonly timing?: boolean;
+  /** Rollout worker threads (see ControllerParts.workers). @defaultValue none */
+  readonly workers?: RolloutWorkers;
 }
 
 /**
@@ -97,5 +100,6 @@ export function cem(options: CemOptions): Controller {
     seed: options.seed,
     sliceSize: options.sliceSize,
     timing: options.timing,
+    workers: options.workers,
   });
 }

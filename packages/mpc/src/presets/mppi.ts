@@ -8,6 +8,7 @@ import { type Controller, createController } from "../controller.js";
 import { gaussianPlan } from "../distributions/gaussian.js";
 import { requireObject } from "../internal/input.js";
 import { exponentialUtility } from "../losses/exponentialUtility.js";
+import type { RolloutWorkers } from "../parallel/pool.js";
 import { type MeanFill, shiftPlan } from "../shift.js";
 
 /** Options of {@link mppi}. */
@@ -42,6 +43,8 @@ export interface MppiOptions {
   readonly sliceSize?: number;
   /** Measure `report.wallTimeMs` (two clock reads per step; see ControllerParts.timing). @defaultValue true */
   readonly timing?: boolean;
+  /** Rollout worker threads (see ControllerParts.workers). @defaultValue none */
+  readonly workers?: RolloutWorkers;
 }
 
 /**
@@ -83,5 +86,6 @@ export function mppi(options: MppiOptions): Controller {
     seed: options.seed,
     sliceSize: options.sliceSize,
     timing: options.timing,
+    workers: options.workers,
   });
 }

@@ -46,7 +46,8 @@ const FN = "reuseBest";
  * that bias for samples that are already good. Each sample of a slice still depends only on the
  * slice's stream and the plan's parameters (memory included), so results do not depend on how
  * slices are spread over workers. The wrapped family draws all K rows (rows k < r are then
- * overwritten), so rows k ≥ r are bit-identical to the wrapped family's.
+ * overwritten), so rows k ≥ r are bit-identical to the wrapped family's; a wrapped
+ * `keepMeanSample` (row 0) is therefore overwritten too.
  * Symbols ↔ options: r ↔ `keep`.
  *
  * Derived variant. Published source of the idea (keeping elite sequences across iterations and

@@ -11,12 +11,14 @@ import {
   type Dynamics,
   type MatrixInput,
   RecedeError,
+  requireControlBounds,
   requireInteger,
+  requireVector,
   type Stream,
   toRowMajor,
 } from "@recede/core";
 import type { Problem } from "@recede/problems";
-import { requireFiniteArray } from "../internal/validate.js";
+import { requireInterface, requireOptionsObject } from "../internal/validate.js";
 import { type Actor, controlOf, type StochasticPolicy } from "../policies/policy.js";
 import { EpisodeBatch } from "./episodeBatch.js";
 
@@ -110,7 +112,7 @@ function perComponent(
     out.fill(x);
     return out;
   }
-  requireFiniteArray(fn, arg, x, n);
+  requireVector(fn, arg, x, n);
   for (let i = 0; i < n; i++) {
     if (x[i] < 0) throw new RecedeError("range", fn, `${arg}[${i}]`, ">= 0", x[i]);
     out[i] = x[i];
@@ -328,7 +330,7 @@ export class RolloutEnvironment {
   ): EpisodeBatch {
     const fn = "RolloutEnvironment.collect";
     this.checkPolicy(fn, policy);
-    requireFiniteArray(fn, "theta", theta, policy.parameterCount);
+    requireVector(fn, "theta", theta, policy.parameterCount);
     if (batch.actionSize !== policy.actionSize) {
       throw new RecedeError(
         "dimension",
@@ -394,9 +396,7 @@ export class RolloutEnvironment {
   evaluate(actor: Actor, episodes: number, stream: Stream): Evaluation {
     const fn = "RolloutEnvironment.evaluate";
     requireInteger(fn, "episodes", episodes, 1);
-    if (typeof actor !== "object" || actor === null || typeof actor.act !== "function") {
-      throw new RecedeError("type", fn, "actor", "an object with act(state)", actor);
-    }
+    requireInterface(fn, "actor", actor, "act", "an object with act(state)");
     const m = this.controlSize;
     const n = this.stateSize;
     const batch = new EpisodeBatch(1, this.horizon, n, m, m);
@@ -471,15 +471,10 @@ export class RolloutEnvironment {
  */
 export function rolloutEnvironment(options: RolloutEnvironmentOptions): RolloutEnvironment {
   const fn = "rolloutEnvironment";
-  if (typeof options !== "object" || options === null)
-    throw new RecedeError("type", fn, "options", "an object", options);
+  requireOptionsObject(fn, options);
   const { dynamics, cost } = options;
-  if (typeof dynamics !== "object" || dynamics === null || typeof dynamics.step !== "function") {
-    throw new RecedeError("type", fn, "dynamics", "a Dynamics object", dynamics);
-  }
-  if (typeof cost !== "object" || cost === null || typeof cost.running !== "function") {
-    throw new RecedeError("type", fn, "cost", "a CostModel object", cost);
-  }
+  requireInterface(fn, "dynamics", dynamics, "step", "a Dynamics object");
+  requireInterface(fn, "cost", cost, "running", "a CostModel object");
   const n = dynamics.stateSize;
   const m = dynamics.controlSize;
   if (cost.stateSize !== n || cost.controlSize !== m) {
@@ -492,46 +487,17 @@ export function rolloutEnvironment(options: RolloutEnvironmentOptions): RolloutE
     );
   }
   const horizon = requireInteger(fn, "horizon", options.horizon, 1);
-  const lower = new Float64Array(m).fill(Number.NEGATIVE_INFINITY);
-  const upper = new Float64Array(m).fill(Number.POSITIVE_INFINITY);
-  if (options.bounds !== undefined) {
-    const b = options.bounds;
-    if (!(b.lower instanceof Float64Array) || b.lower.length !== m) {
-      throw new RecedeError(
-        "dimension",
-        fn,
-        "bounds.lower",
-        `a Float64Array of length ${m}`,
-        b.lower,
-      );
-    }
-    if (!(b.upper instanceof Float64Array) || b.upper.length !== m) {
-      throw new RecedeError(
-        "dimension",
-        fn,
-        "bounds.upper",
-        `a Float64Array of length ${m}`,
-        b.upper,
-      );
-    }
-    for (let j = 0; j < m; j++) {
-      if (Number.isNaN(b.lower[j]) || Number.isNaN(b.upper[j]) || b.lower[j] > b.upper[j]) {
-        throw new RecedeError(
-          "range",
-          fn,
-          `bounds[${j}]`,
-          "lower <= upper",
-          `[${b.lower[j]}, ${b.upper[j]}]`,
-        );
-      }
-      lower[j] = b.lower[j];
-      upper[j] = b.upper[j];
-    }
-  }
+  const { lower, upper } =
+    options.bounds === undefined
+      ? {
+          lower: new Float64Array(m).fill(Number.NEGATIVE_INFINITY),
+          upper: new Float64Array(m).fill(Number.POSITIVE_INFINITY),
+        }
+      : requireControlBounds(fn, "bounds", options.bounds, m);
   let x0: Float64Array | null = null;
   let sampler: InitialStateSampler | null = null;
   if (typeof options.initialState === "function") sampler = options.initialState;
-  else x0 = requireFiniteArray(fn, "initialState", options.initialState, n).slice();
+  else x0 = requireVector(fn, "initialState", options.initialState, n).slice();
   const x0Std = perComponent(fn, "initialStateStd", options.initialStateStd, n);
   const wStd = perComponent(fn, "disturbanceStd", options.disturbanceStd, n);
   let table: Float64Array | null = null;

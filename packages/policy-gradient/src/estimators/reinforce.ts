@@ -15,6 +15,8 @@ import type { ValueModel } from "./valueFunction.js";
  * Discounted returns-to-go G_t = Σ_{k=t}^{L−1} γ^{k−t} c_k + γ^{L−t} c_H(x_L) for every sample of
  * `batch` (sample i = e·T + t; L = the episode's length, T unless it terminated early), written
  * into `out` (length E·T; padding steps get 0). Returns `out`.
+ * Computed backwards, G_t = c_t + γ G_{t+1} (common practice; R. S. Sutton, A. G. Barto,
+ * "Reinforcement Learning: An Introduction", 2nd ed., 2018, §3.3).
  */
 export function returnsToGo(
   batch: EpisodeBatch,

@@ -35,6 +35,10 @@ export interface ScoredSamples {
 /**
  * L(θ) and, when `grad` is given, grad ← ∇L(θ) (see {@link ScoredSamples}). Returns L(θ).
  * Samples whose weight is 0 are skipped.
+ *
+ * L(θ) = (1/Z) Σ_i w_i ρ_i, ∇L(θ) = (1/Z) Σ_i w_i ρ_i ∇ln π_θ(a_i | s_i), ρ_i = π_θ(a_i|s_i)/π_b(a_i|s_i)
+ * (Schulman et al., "Trust Region Policy Optimization", ICML 2015; at ρ = 1 the REINFORCE
+ * estimate of Williams 1992).
  */
 export function surrogateLoss(
   policy: StochasticPolicy,

@@ -5,7 +5,7 @@
  * @module
  */
 import { kernels, RecedeError, requireInteger } from "@recede/core";
-import { requireNonNegative } from "../internal/validate.js";
+import { requireNonNegative, requireOptionsObject } from "../internal/validate.js";
 
 /** A value model V(s, t) that predicts the cost-to-go from state s at step t. */
 export interface ValueModel {
@@ -168,8 +168,7 @@ export class LinearValueFunction implements ValueModel {
  */
 export function linearValueFunction(options: LinearValueFunctionOptions): LinearValueFunction {
   const fn = "linearValueFunction";
-  if (typeof options !== "object" || options === null)
-    throw new RecedeError("type", fn, "options", "an object", options);
+  requireOptionsObject(fn, options);
   const n = requireInteger(fn, "stateSize", options.stateSize, 1);
   const horizon = requireInteger(fn, "horizon", options.horizon ?? 1, 1);
   const features = options.features ?? "quadratic";

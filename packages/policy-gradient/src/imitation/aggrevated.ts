@@ -8,12 +8,17 @@ import {
   type Geometry,
   RecedeError,
   requireInteger,
+  requireVector,
   type StepSizeInput,
 } from "@recede/core";
 import type { RolloutEnvironment } from "../environment/environment.js";
 import type { EpisodeBatch } from "../environment/episodeBatch.js";
 import type { ScoredSamples } from "../estimators/scoredSamples.js";
-import { requireFiniteArray, requireUnitHalfOpen } from "../internal/validate.js";
+import {
+  requireInterface,
+  requireOptionsObject,
+  requireUnitHalfOpen,
+} from "../internal/validate.js";
 import { controlOf, type StochasticPolicy } from "../policies/policy.js";
 import type { FisherGeometryOptions } from "../updates/fisherGeometry.js";
 import {
@@ -175,16 +180,11 @@ function rolloutCostToGo(
  */
 export function aggrevated(options: AggrevatedOptions): AggrevatedResult {
   const fn = "aggrevated";
-  if (typeof options !== "object" || options === null)
-    throw new RecedeError("type", fn, "options", "an object", options);
+  requireOptionsObject(fn, options);
   const env = options.environment;
-  if (typeof env !== "object" || env === null || typeof env.collect !== "function") {
-    throw new RecedeError("type", fn, "environment", "a RolloutEnvironment", env);
-  }
+  requireInterface(fn, "environment", env, "collect", "a RolloutEnvironment");
   const expert = options.expert;
-  if (typeof expert !== "object" || expert === null || typeof expert.act !== "function") {
-    throw new RecedeError("type", fn, "expert", "an object with act(state)", expert);
-  }
+  requireInterface(fn, "expert", expert, "act", "an object with act(state)");
   const policy = options.policy;
   env.checkPolicy(fn, policy);
   if (env.terminate !== null) {
@@ -222,7 +222,7 @@ export function aggrevated(options: AggrevatedOptions): AggrevatedResult {
   const T = env.horizon;
   const cap = requireInteger(fn, "rolloutSteps", options.rolloutSteps ?? T, 0);
   const gamma = requireUnitHalfOpen(fn, "discount", options.discount ?? 1);
-  const initial = requireFiniteArray(
+  const initial = requireVector(
     fn,
     "initial",
     options.initial ?? policy.initialParameters(),

@@ -3,10 +3,16 @@
  *
  * @module
  */
-import { createStream, RecedeError, requireInteger, type Stream } from "@recede/core";
+import {
+  createStream,
+  RecedeError,
+  requireInteger,
+  requireVector,
+  type Stream,
+} from "@recede/core";
 import type { RolloutEnvironment } from "../environment/environment.js";
 import type { EpisodeBatch } from "../environment/episodeBatch.js";
-import { requireFiniteArray, requireUnitClosed } from "../internal/validate.js";
+import { requireInterface, requireOptionsObject, requireUnitClosed } from "../internal/validate.js";
 import { policyActor } from "../policies/actor.js";
 import { type Actor, controlOf, type StochasticPolicy } from "../policies/policy.js";
 import type { FitPolicyOptions } from "./fitPolicy.js";
@@ -122,19 +128,14 @@ interface Checked {
 }
 
 function checkCommon(fn: string, o: ImitationOptions): Checked {
-  if (typeof o !== "object" || o === null)
-    throw new RecedeError("type", fn, "options", "an object", o);
+  requireOptionsObject(fn, o);
   const env = o.environment;
-  if (typeof env !== "object" || env === null || typeof env.collectWith !== "function") {
-    throw new RecedeError("type", fn, "environment", "a RolloutEnvironment", env);
-  }
+  requireInterface(fn, "environment", env, "collectWith", "a RolloutEnvironment");
   const expert = o.expert;
-  if (typeof expert !== "object" || expert === null || typeof expert.act !== "function") {
-    throw new RecedeError("type", fn, "expert", "an object with act(state)", expert);
-  }
+  requireInterface(fn, "expert", expert, "act", "an object with act(state)");
   env.checkPolicy(fn, o.policy);
   const seed = o.seed ?? 0;
-  const initial = requireFiniteArray(
+  const initial = requireVector(
     fn,
     "initial",
     o.initial ?? o.policy.initialParameters(),

@@ -4,8 +4,8 @@
  *
  * @module
  */
-import { kernels, RecedeError, requireInteger, requirePositive } from "@recede/core";
-import { requireFiniteArray, requireNonNegative } from "../internal/validate.js";
+import { kernels, RecedeError, requireInteger, requirePositive, requireVector } from "@recede/core";
+import { requireNonNegative } from "../internal/validate.js";
 import { LinearGaussianPolicy } from "../policies/linearGaussian.js";
 import { MlpGaussianPolicy } from "../policies/mlpGaussian.js";
 import type { StochasticPolicy } from "../policies/policy.js";
@@ -173,7 +173,7 @@ export function fitPolicy(
   options: FitPolicyOptions = {},
 ): FitPolicyReport {
   const fn = "fitPolicy";
-  requireFiniteArray(fn, "theta", theta, policy.parameterCount);
+  requireVector(fn, "theta", theta, policy.parameterCount);
   if (!(data instanceof ImitationDataset))
     throw new RecedeError("type", fn, "data", "an ImitationDataset", data);
   if (data.stateSize !== policy.stateSize || data.labelSize !== policy.actionSize) {

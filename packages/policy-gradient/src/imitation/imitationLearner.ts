@@ -11,8 +11,9 @@ import {
   RecedeError,
   type RoundRecord,
   requireInteger,
+  requireVector,
 } from "@recede/core";
-import { requireFiniteArray } from "../internal/validate.js";
+import { requireInterface, requireOptionsObject } from "../internal/validate.js";
 import type { StochasticPolicy } from "../policies/policy.js";
 import { ImitationDataset } from "./dataset.js";
 import {
@@ -236,7 +237,7 @@ export class ImitationLearner
     const fn = "ImitationLearner.restore";
     if (typeof snapshot !== "object" || snapshot === null)
       throw new RecedeError("type", fn, "snapshot", "an ImitationLearnerSnapshot", snapshot);
-    requireFiniteArray(fn, "snapshot.decision", snapshot.decision, this.dimension);
+    requireVector(fn, "snapshot.decision", snapshot.decision, this.dimension);
     if (
       !Number.isInteger(snapshot.dataSize) ||
       snapshot.dataSize < 0 ||
@@ -277,13 +278,10 @@ export class ImitationLearner
  */
 export function imitationLearner(options: ImitationLearnerOptions): ImitationLearner {
   const fn = "imitationLearner";
-  if (typeof options !== "object" || options === null)
-    throw new RecedeError("type", fn, "options", "an object", options);
+  requireOptionsObject(fn, options);
   const policy = options.policy;
-  if (typeof policy !== "object" || policy === null || typeof policy.mean !== "function") {
-    throw new RecedeError("type", fn, "policy", "a StochasticPolicy", policy);
-  }
-  const initial = requireFiniteArray(
+  requireInterface(fn, "policy", policy, "mean", "a StochasticPolicy");
+  const initial = requireVector(
     fn,
     "initial",
     options.initial ?? policy.initialParameters(),

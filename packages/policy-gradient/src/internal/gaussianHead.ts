@@ -89,3 +89,21 @@ export function gaussianPerturb(
 ): void {
   for (let j = 0; j < m; j++) action[ao + j] = mu[j] + Math.exp(theta[ls + j]) * action[ao + j];
 }
+
+/**
+ * Finish a Gaussian-family Fisher-vector product: the mean block of `out` (entries before `ls`)
+ * holds Σ_k J_kᵀ diag(σ⁻²) J_k v and is averaged over `count` states; the ln σ block is 2·v_{ln σ}
+ * (the Fisher of N(μ, σ²) in ln σ is 2, independent of the state). Returns `out`.
+ */
+export function finishGaussianFisher(
+  m: number,
+  ls: number,
+  count: number,
+  v: Float64Array,
+  out: Float64Array,
+): Float64Array {
+  const inv = count > 0 ? 1 / count : 0;
+  for (let p = 0; p < ls; p++) out[p] *= inv;
+  for (let j = 0; j < m; j++) out[ls + j] = 2 * v[ls + j];
+  return out;
+}

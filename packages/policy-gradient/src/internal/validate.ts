@@ -1,22 +1,38 @@
 /**
- * Small validation helpers used at this package's boundaries (all throw RecedeError).
+ * Small validation helpers used at this package's boundaries (all throw RecedeError). Checks that
+ * `@recede/core` already provides (`requireVector`, `requireInRange`, `requireInteger`, …) are
+ * used from there; what is here is either a named interval used often in this package or a shape
+ * check the core does not have.
  *
  * @module
  */
-import { RecedeError, requireFinite, requireInteger } from "@recede/core";
+import { RecedeError, requireFinite, requireInRange, requireInteger } from "@recede/core";
 
-/** Throw unless `x` is a Float64Array of exactly `n` finite entries. */
-export function requireFiniteArray(fn: string, arg: string, x: unknown, n: number): Float64Array {
-  if (!(x instanceof Float64Array)) {
-    throw new RecedeError("type", fn, arg, `a Float64Array of length ${n}`, x);
+/** Throw unless `options` is a non-null object (the options record of `fn`). */
+export function requireOptionsObject(fn: string, options: unknown): void {
+  if (typeof options !== "object" || options === null) {
+    throw new RecedeError("type", fn, "options", "an object", options);
   }
-  if (x.length !== n) throw new RecedeError("dimension", fn, arg, `of length ${n}`, x);
-  for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(x[i])) {
-      throw new RecedeError("non-finite", fn, `${arg}[${i}]`, "finite", x[i]);
-    }
+}
+
+/**
+ * Throw unless `x` is a non-null object with a method called `method` (a duck-typed contract such
+ * as an environment's `collect` or an expert's `act`); `expected` names the contract in the message.
+ */
+export function requireInterface(
+  fn: string,
+  arg: string,
+  x: unknown,
+  method: string,
+  expected: string,
+): void {
+  if (
+    typeof x !== "object" ||
+    x === null ||
+    typeof (x as Record<string, unknown>)[method] !== "function"
+  ) {
+    throw new RecedeError("type", fn, arg, expected, x);
   }
-  return x;
 }
 
 /** Read an optional number option, falling back to a default, validated by `check`. */
@@ -38,7 +54,7 @@ export function requireNonNegative(fn: string, arg: string, x: unknown): number 
   return x as number;
 }
 
-/** Throw unless x is a finite number in (0, 1). */
+/** Throw unless x is a finite number in (0, 1) (the core's intervals are closed at the top). */
 export function requireOpenUnit(fn: string, arg: string, x: unknown): number {
   requireFinite(fn, arg, x);
   const v = x as number;
@@ -48,18 +64,12 @@ export function requireOpenUnit(fn: string, arg: string, x: unknown): number {
 
 /** Throw unless x is a finite number in (0, 1]. */
 export function requireUnitHalfOpen(fn: string, arg: string, x: unknown): number {
-  requireFinite(fn, arg, x);
-  const v = x as number;
-  if (v <= 0 || v > 1) throw new RecedeError("range", fn, arg, "in (0, 1]", x);
-  return v;
+  return requireInRange(fn, arg, x, 0, 1, true);
 }
 
 /** Throw unless x is a finite number in [0, 1]. */
 export function requireUnitClosed(fn: string, arg: string, x: unknown): number {
-  requireFinite(fn, arg, x);
-  const v = x as number;
-  if (v < 0 || v > 1) throw new RecedeError("range", fn, arg, "in [0, 1]", x);
-  return v;
+  return requireInRange(fn, arg, x, 0, 1);
 }
 
 /** Throw unless x is an integer ≥ 1. */

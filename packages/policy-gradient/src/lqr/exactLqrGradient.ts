@@ -11,11 +11,12 @@ import {
   RecedeError,
   requireInteger,
   requirePositive,
+  requireVector,
   spectralRadius,
   toRowMajor,
 } from "@recede/core";
 import type { LinearQuadratic } from "@recede/problems";
-import { requireFiniteArray, requireUnitHalfOpen } from "../internal/validate.js";
+import { requireOptionsObject, requireUnitHalfOpen } from "../internal/validate.js";
 
 /** Options of {@link lqrPolicyProblem}. */
 export interface LqrPolicyProblemOptions {
@@ -145,7 +146,7 @@ export class LqrPolicyProblem {
   }
 
   private checkGain(fn: string, k: Float64Array): void {
-    requireFiniteArray(fn, "gain", k, this.controlSize * this.stateSize);
+    requireVector(fn, "gain", k, this.controlSize * this.stateSize);
   }
 
   /** The scaled closed loop √γ (A − BK) (n×n). */
@@ -289,8 +290,7 @@ export class LqrPolicyProblem {
  */
 export function lqrPolicyProblem(options: LqrPolicyProblemOptions): LqrPolicyProblem {
   const fn = "lqrPolicyProblem";
-  if (typeof options !== "object" || options === null)
-    throw new RecedeError("type", fn, "options", "an object", options);
+  requireOptionsObject(fn, options);
   const A = toRowMajor(fn, "a", options.a);
   const n = requireInteger(fn, "a.rows", A.rows, 1);
   if (A.cols !== n)

@@ -3,8 +3,8 @@
  *
  * @module
  */
-import { type MatrixInput, RecedeError, toRowMajor } from "@recede/core";
-import { requireFiniteArray } from "../internal/validate.js";
+import { type MatrixInput, RecedeError, requireVector, toRowMajor } from "@recede/core";
+
 import type { Actor, StochasticPolicy } from "./policy.js";
 
 /** Options of {@link policyActor}. */
@@ -42,7 +42,7 @@ export function policyActor(
   options: PolicyActorOptions = {},
 ): PolicyActor {
   const fn = "policyActor";
-  const params = requireFiniteArray(fn, "theta", theta, policy.parameterCount).slice();
+  const params = requireVector(fn, "theta", theta, policy.parameterCount).slice();
   const n = policy.stateSize;
   let table: Float64Array | null = null;
   let m = policy.actionSize;

@@ -12,11 +12,13 @@ import {
   toRowMajor,
 } from "@recede/core";
 import {
+  finishGaussianFisher,
   gaussianKl,
   gaussianLogProb,
   gaussianPerturb,
   gaussianScore,
 } from "../internal/gaussianHead.js";
+import { requireOptionsObject } from "../internal/validate.js";
 import type { ParameterBlock, StochasticPolicy } from "./policy.js";
 
 /** Options of {@link linearGaussianPolicy}. */
@@ -145,7 +147,6 @@ export class LinearGaussianPolicy implements StochasticPolicy {
     weight: number,
     out: Float64Array,
   ): number {
-    const n = this.stateSize;
     const m = this.actionSize;
     this.meanInto(theta, state, so, this.mu);
     const lp = gaussianScore(
@@ -160,13 +161,23 @@ export class LinearGaussianPolicy implements StochasticPolicy {
       this.dmu,
       out,
     );
-    const d = this.dmu;
+    this.addMeanTranspose(state, so, this.dmu, out);
+    return lp;
+  }
+
+  /**
+   * out ← out + J(x)ᵀ w for the mean's Jacobian J(x) = ∂μ/∂(K, b) at x: −w_j x_i on K_{ji}, +w_j on
+   * b_j (the ln σ block is not touched).
+   */
+  private addMeanTranspose(x: Float64Array, xo: number, w: Float64Array, out: Float64Array): void {
+    const n = this.stateSize;
+    const m = this.actionSize;
     for (let j = 0; j < m; j++) {
       const r = j * n;
-      for (let i = 0; i < n; i++) out[r + i] -= d[j] * state[so + i];
+      const wj = w[j];
+      for (let i = 0; i < n; i++) out[r + i] -= wj * x[xo + i];
     }
-    if (this.hasBias) for (let j = 0; j < m; j++) out[m * n + j] += d[j];
-    return lp;
+    if (this.hasBias) for (let j = 0; j < m; j++) out[m * n + j] += w[j];
   }
 
   fisherVectorProduct(
@@ -177,32 +188,18 @@ export class LinearGaussianPolicy implements StochasticPolicy {
     v: Float64Array,
     out: Float64Array,
   ): Float64Array {
-    const n = this.stateSize;
     const m = this.actionSize;
     const ls = this.logStdOffset;
-    const bo = m * n;
     out.fill(0);
     const w = this.dmu;
     for (let k = 0; k < count; k++) {
-      const xo = so + k * n;
-      // w = Σ⁻¹ J v with J v = −V_K x + v_b.
-      for (let j = 0; j < m; j++) {
-        let s = this.hasBias ? v[bo + j] : 0;
-        const r = j * n;
-        for (let i = 0; i < n; i++) s -= v[r + i] * states[xo + i];
-        w[j] = s * Math.exp(-2 * theta[ls + j]);
-      }
-      // out += Jᵀ w.
-      for (let j = 0; j < m; j++) {
-        const r = j * n;
-        for (let i = 0; i < n; i++) out[r + i] -= w[j] * states[xo + i];
-        if (this.hasBias) out[bo + j] += w[j];
-      }
+      const xo = so + k * this.stateSize;
+      // μ is linear in (K, b), so J v = −V_K x + v_b is the mean map applied to v; w = Σ⁻¹ J v.
+      this.meanInto(v, states, xo, w);
+      for (let j = 0; j < m; j++) w[j] *= Math.exp(-2 * theta[ls + j]);
+      this.addMeanTranspose(states, xo, w, out);
     }
-    const inv = count > 0 ? 1 / count : 0;
-    for (let p = 0; p < ls; p++) out[p] *= inv;
-    for (let j = 0; j < m; j++) out[ls + j] = 2 * v[ls + j];
-    return out;
+    return finishGaussianFisher(m, ls, count, v, out);
   }
 
   meanKl(
@@ -238,9 +235,7 @@ export class LinearGaussianPolicy implements StochasticPolicy {
  */
 export function linearGaussianPolicy(options: LinearGaussianPolicyOptions): LinearGaussianPolicy {
   const fn = "linearGaussianPolicy";
-  if (typeof options !== "object" || options === null) {
-    throw new RecedeError("type", fn, "options", "an object", options);
-  }
+  requireOptionsObject(fn, options);
   const n = requireInteger(fn, "stateSize", options.stateSize, 1);
   const m = requireInteger(fn, "actionSize", options.actionSize, 1);
   const bias = options.bias ?? true;

@@ -14,11 +14,13 @@ import {
   type Stream,
 } from "@recede/core";
 import {
+  finishGaussianFisher,
   gaussianKl,
   gaussianLogProb,
   gaussianPerturb,
   gaussianScore,
 } from "../internal/gaussianHead.js";
+import { requireOptionsObject } from "../internal/validate.js";
 import type { ParameterBlock, StochasticPolicy } from "./policy.js";
 
 /** Options of {@link mlpGaussianPolicy}. */
@@ -377,10 +379,7 @@ export class MlpGaussianPolicy implements StochasticPolicy {
       }
       this.backward(theta, out);
     }
-    const inv = count > 0 ? 1 / count : 0;
-    for (let p = 0; p < ls; p++) out[p] *= inv;
-    for (let j = 0; j < m; j++) out[ls + j] = 2 * v[ls + j];
-    return out;
+    return finishGaussianFisher(m, ls, count, v, out);
   }
 
   meanKl(
@@ -418,9 +417,7 @@ export class MlpGaussianPolicy implements StochasticPolicy {
  */
 export function mlpGaussianPolicy(options: MlpGaussianPolicyOptions): MlpGaussianPolicy {
   const fn = "mlpGaussianPolicy";
-  if (typeof options !== "object" || options === null) {
-    throw new RecedeError("type", fn, "options", "an object", options);
-  }
+  requireOptionsObject(fn, options);
   const n = requireInteger(fn, "stateSize", options.stateSize, 1);
   const m = requireInteger(fn, "actionSize", options.actionSize, 1);
   const hidden = options.hidden ?? [32, 32];

@@ -3,7 +3,8 @@
  *
  * @module
  */
-import { RecedeError, requireInteger, type Stream } from "@recede/core";
+import { kernels, RecedeError, requireInteger, type Stream } from "@recede/core";
+import { requireOptionsObject } from "../internal/validate.js";
 import type { ParameterBlock, StochasticPolicy } from "./policy.js";
 
 /** Options of {@link softmaxPolicy}. */
@@ -63,23 +64,37 @@ export class SoftmaxPolicy implements StochasticPolicy {
     return new Float64Array(this.parameterCount);
   }
 
-  /** out ← log-probabilities ln p (length N) at state x. */
-  private logits(theta: Float64Array, x: Float64Array, xo: number, out: Float64Array): void {
+  /** out ← the scores z = W x + c (length N) for the weights and offsets held in `w`. */
+  private scores(w: Float64Array, x: Float64Array, xo: number, out: Float64Array): void {
     const n = this.stateSize;
     const N = this.actionCount;
     const co = N * n;
-    let mx = Number.NEGATIVE_INFINITY;
     for (let a = 0; a < N; a++) {
-      let s = this.hasBias ? theta[co + a] : 0;
+      let s = this.hasBias ? w[co + a] : 0;
       const r = a * n;
-      for (let i = 0; i < n; i++) s += theta[r + i] * x[xo + i];
+      for (let i = 0; i < n; i++) s += w[r + i] * x[xo + i];
       out[a] = s;
-      if (s > mx) mx = s;
     }
-    let t = 0;
-    for (let a = 0; a < N; a++) t += Math.exp(out[a] - mx);
-    const lse = mx + Math.log(t);
+  }
+
+  /** out ← log-probabilities ln p = z − logsumexp(z) (length N) at state x. */
+  private logits(theta: Float64Array, x: Float64Array, xo: number, out: Float64Array): void {
+    const N = this.actionCount;
+    this.scores(theta, x, xo, out);
+    const lse = kernels.logSumExp(N, out, 0);
     for (let a = 0; a < N; a++) out[a] -= lse;
+  }
+
+  /** out ← out + Jᵀ w for the scores' Jacobian J = ∂z/∂(W, c) at x: w_a x_i on W_{ai}, w_a on c_a. */
+  private addScoreTranspose(x: Float64Array, xo: number, w: Float64Array, out: Float64Array): void {
+    const n = this.stateSize;
+    const N = this.actionCount;
+    for (let a = 0; a < N; a++) {
+      const r = a * n;
+      const wa = w[a];
+      for (let i = 0; i < n; i++) out[r + i] += wa * x[xo + i];
+      if (this.hasBias) out[N * n + a] += wa;
+    }
   }
 
   /** Write the action probabilities at `state` into `out` (length N). Returns `out`. */
@@ -150,16 +165,12 @@ export class SoftmaxPolicy implements StochasticPolicy {
     weight: number,
     out: Float64Array,
   ): number {
-    const n = this.stateSize;
     const N = this.actionCount;
     this.logits(theta, state, so, this.z);
     const act = action[ao];
-    for (let a = 0; a < N; a++) {
-      const g = weight * ((a === act ? 1 : 0) - Math.exp(this.z[a]));
-      const r = a * n;
-      for (let i = 0; i < n; i++) out[r + i] += g * state[so + i];
-      if (this.hasBias) out[N * n + a] += g;
-    }
+    const g = this.dz;
+    for (let a = 0; a < N; a++) g[a] = weight * ((a === act ? 1 : 0) - Math.exp(this.z[a]));
+    this.addScoreTranspose(state, so, g, out);
     return this.z[act];
   }
 
@@ -171,30 +182,23 @@ export class SoftmaxPolicy implements StochasticPolicy {
     v: Float64Array,
     out: Float64Array,
   ): Float64Array {
-    const n = this.stateSize;
     const N = this.actionCount;
-    const co = N * n;
     out.fill(0);
     const dz = this.dz;
     const p = this.z2;
     for (let k = 0; k < count; k++) {
-      const xo = so + k * n;
+      const xo = so + k * this.stateSize;
       this.logits(theta, states, xo, this.z);
+      // The scores are linear in θ, so J v is the score map applied to v; then
+      // w = (diag p − p pᵀ) J v and out += Jᵀ w.
+      this.scores(v, states, xo, dz);
       let pd = 0;
       for (let a = 0; a < N; a++) {
-        let s = this.hasBias ? v[co + a] : 0;
-        const r = a * n;
-        for (let i = 0; i < n; i++) s += v[r + i] * states[xo + i];
-        dz[a] = s;
         p[a] = Math.exp(this.z[a]);
-        pd += p[a] * s;
+        pd += p[a] * dz[a];
       }
-      for (let a = 0; a < N; a++) {
-        const w = p[a] * (dz[a] - pd);
-        const r = a * n;
-        for (let i = 0; i < n; i++) out[r + i] += w * states[xo + i];
-        if (this.hasBias) out[co + a] += w;
-      }
+      for (let a = 0; a < N; a++) dz[a] = p[a] * (dz[a] - pd);
+      this.addScoreTranspose(states, xo, dz, out);
     }
     if (count > 0) {
       const inv = 1 / count;
@@ -236,9 +240,7 @@ export class SoftmaxPolicy implements StochasticPolicy {
  */
 export function softmaxPolicy(options: SoftmaxPolicyOptions): SoftmaxPolicy {
   const fn = "softmaxPolicy";
-  if (typeof options !== "object" || options === null) {
-    throw new RecedeError("type", fn, "options", "an object", options);
-  }
+  requireOptionsObject(fn, options);
   const n = requireInteger(fn, "stateSize", options.stateSize, 1);
   const N = requireInteger(fn, "actionCount", options.actionCount, 2);
   const bias = options.bias ?? true;

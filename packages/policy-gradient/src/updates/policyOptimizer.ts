@@ -18,10 +18,11 @@ import {
   type RoundRecord,
   requireInteger,
   requirePositive,
+  requireVector,
   type StepSizeInput,
 } from "@recede/core";
 import { type ScoredSamples, surrogateLoss } from "../estimators/scoredSamples.js";
-import { requireFiniteArray, requireNonNegative, requireOpenUnit } from "../internal/validate.js";
+import { requireNonNegative, requireOpenUnit, requireOptionsObject } from "../internal/validate.js";
 import type { StochasticPolicy } from "../policies/policy.js";
 import {
   type FisherGeometryOptions,
@@ -411,7 +412,7 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
     const fn = "PolicyOptimizer.restore";
     if (typeof snapshot !== "object" || snapshot === null)
       throw new RecedeError("type", fn, "snapshot", "a PolicyOptimizerSnapshot", snapshot);
-    requireFiniteArray(fn, "snapshot.decision", snapshot.decision, this.dimension);
+    requireVector(fn, "snapshot.decision", snapshot.decision, this.dimension);
     requireInteger(fn, "snapshot.round", snapshot.round, 0);
     if ((this.inner !== null) !== (snapshot.inner !== null)) {
       throw new RecedeError(
@@ -455,8 +456,7 @@ export class PolicyOptimizer implements OnlineLearner<PolicyFeedback, PolicyOpti
  */
 export function policyOptimizer(options: PolicyOptimizerOptions): PolicyOptimizer {
   const fn = "policyOptimizer";
-  if (typeof options !== "object" || options === null)
-    throw new RecedeError("type", fn, "options", "an object", options);
+  requireOptionsObject(fn, options);
   const policy = options.policy;
   if (
     typeof policy !== "object" ||
@@ -466,12 +466,7 @@ export function policyOptimizer(options: PolicyOptimizerOptions): PolicyOptimize
     throw new RecedeError("type", fn, "policy", "a StochasticPolicy", policy);
   }
   const d = policy.parameterCount;
-  const initial = requireFiniteArray(
-    fn,
-    "initial",
-    options.initial ?? policy.initialParameters(),
-    d,
-  );
+  const initial = requireVector(fn, "initial", options.initial ?? policy.initialParameters(), d);
   const g = options.geometry ?? "euclidean";
   let geometry: Geometry;
   if (g === "euclidean") geometry = euclidean({ dimension: d });

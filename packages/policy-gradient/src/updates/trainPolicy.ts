@@ -6,6 +6,7 @@
 import { createStream, RecedeError, requireInteger } from "@recede/core";
 import type { RolloutEnvironment } from "../environment/environment.js";
 import type { GradientEstimator } from "../estimators/reinforce.js";
+import { requireInterface, requireOptionsObject } from "../internal/validate.js";
 import { PolicyOptimizer } from "./policyOptimizer.js";
 
 /** Options of {@link trainPolicy}. */
@@ -69,17 +70,12 @@ export interface TrainingResult {
  */
 export function trainPolicy(options: TrainPolicyOptions): TrainingResult {
   const fn = "trainPolicy";
-  if (typeof options !== "object" || options === null)
-    throw new RecedeError("type", fn, "options", "an object", options);
+  requireOptionsObject(fn, options);
   const { environment: env, optimizer: opt, estimator: est } = options;
   if (!(opt instanceof PolicyOptimizer))
     throw new RecedeError("type", fn, "optimizer", "a PolicyOptimizer", opt);
-  if (typeof env !== "object" || env === null || typeof env.collect !== "function") {
-    throw new RecedeError("type", fn, "environment", "a RolloutEnvironment", env);
-  }
-  if (typeof est !== "object" || est === null || typeof est.score !== "function") {
-    throw new RecedeError("type", fn, "estimator", "a GradientEstimator", est);
-  }
+  requireInterface(fn, "environment", env, "collect", "a RolloutEnvironment");
+  requireInterface(fn, "estimator", est, "score", "a GradientEstimator");
   env.checkPolicy(fn, opt.policy);
   const rounds = requireInteger(fn, "rounds", options.rounds, 1);
   const E = requireInteger(fn, "episodesPerRound", options.episodesPerRound, 1);

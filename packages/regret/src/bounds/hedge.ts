@@ -12,6 +12,14 @@
 
 import { expertsArg, positive, roundsArg } from "./checks.js";
 
+/** Validated (N, T, ρ) of a Hedge bound's parameters, ρ defaulting to 1. */
+function read(fn: string, p: HedgeHorizonParameters): [number, number, number] {
+  const N = expertsArg(fn, p.experts);
+  const T = roundsArg(fn, p.rounds);
+  const rho = p.lossRange === undefined ? 1 : positive(fn, "lossRange", p.lossRange);
+  return [N, T, rho];
+}
+
 /** Parameters of the fixed-step Hedge bound. */
 export interface HedgeBoundParameters {
   /** N ≥ 2. */
@@ -34,10 +42,8 @@ export interface HedgeBoundParameters {
  */
 export function hedgeRegretBound(p: HedgeBoundParameters): number {
   const fn = "hedgeRegretBound";
-  const N = expertsArg(fn, p.experts);
-  const T = roundsArg(fn, p.rounds);
+  const [N, T, rho] = read(fn, p);
   const eta = positive(fn, "stepSize", p.stepSize);
-  const rho = p.lossRange === undefined ? 1 : positive(fn, "lossRange", p.lossRange);
   return Math.log(N) / eta + (eta * T * rho * rho) / 8;
 }
 
@@ -54,9 +60,7 @@ export interface HedgeHorizonParameters {
 /** η* = √(8 ln N / T) / ρ, the minimizer of {@link hedgeRegretBound} (Cesa-Bianchi & Lugosi 2006, Cor. 2.2). */
 export function hedgeTunedStepSize(p: HedgeHorizonParameters): number {
   const fn = "hedgeTunedStepSize";
-  const N = expertsArg(fn, p.experts);
-  const T = roundsArg(fn, p.rounds);
-  const rho = p.lossRange === undefined ? 1 : positive(fn, "lossRange", p.lossRange);
+  const [N, T, rho] = read(fn, p);
   return Math.sqrt((8 * Math.log(N)) / T) / rho;
 }
 
@@ -69,9 +73,7 @@ export function hedgeTunedStepSize(p: HedgeHorizonParameters): number {
  */
 export function hedgeAnytimeRegretBound(p: HedgeHorizonParameters): number {
   const fn = "hedgeAnytimeRegretBound";
-  const N = expertsArg(fn, p.experts);
-  const T = roundsArg(fn, p.rounds);
-  const rho = p.lossRange === undefined ? 1 : positive(fn, "lossRange", p.lossRange);
+  const [N, T, rho] = read(fn, p);
   const lnN = Math.log(N);
   return rho * (2 * Math.sqrt((T / 2) * lnN) + Math.sqrt(lnN / 8));
 }

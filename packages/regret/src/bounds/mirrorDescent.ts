@@ -61,7 +61,11 @@ export interface MirrorDescentTuningParameters {
   readonly rounds: number;
 }
 
-/** η* = √(2σB / (T G²)), the minimizer of the worst-case form of {@link mirrorDescentRegretBound}. */
+/**
+ * η* = √(2σB / (T G²)), the minimizer of the worst-case form B/η + ηTG²/(2σ) of
+ * {@link mirrorDescentRegretBound}, where it equals G√(2BT/σ). Derived (MATH.md §1.5; Lattimore &
+ * Szepesvári, "Bandit Algorithms", 2020, Cor. 28.8 for σ = 1).
+ */
 export function mirrorDescentTunedStepSize(p: MirrorDescentTuningParameters): number {
   const fn = "mirrorDescentTunedStepSize";
   const B = positive(fn, "divergenceBound", p.divergenceBound);

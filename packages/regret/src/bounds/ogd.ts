@@ -70,7 +70,10 @@ export function ogdRegretBoundFixedStep(p: OgdFixedStepParameters): number {
   return (D * D) / (2 * eta) + (eta * T * G * G) / 2;
 }
 
-/** η* = D / (G√T), the step that minimizes {@link ogdRegretBoundFixedStep} (needs G, D > 0). */
+/**
+ * η* = D / (G√T), the step that minimizes {@link ogdRegretBoundFixedStep} (needs G, D > 0):
+ * d/dη [D²/(2η) + ηTG²/2] = 0. Derived (MATH.md §1.3; Zinkevich 2003).
+ */
 export function ogdTunedStepSize(p: OgdBoundParameters): number {
   const fn = "ogdTunedStepSize";
   const [D, G, T] = read(fn, p);

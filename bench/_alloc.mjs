@@ -1,0 +1,14 @@
+import { mppi } from "@recede/mpc";
+import { bicycle, cartPole } from "@recede/problems";
+const [model, timing] = [process.argv[2], process.argv[3] === "1"];
+const p = model === "bicycle" ? bicycle() : cartPole();
+const ctrl = mppi({ dynamics: p.dynamics, cost: p.cost, horizon: 20, samples: 64, noise: model === "bicycle" ? [0.75, 0.3] : [4], bounds: p.bounds, seed: 3, timing });
+const x0 = p.initialState(); const x = p.initialState();
+const step = (s) => { if (s % 200 === 0) x.set(x0); const { control } = ctrl.act(x); p.dynamics.step(x, 0, control, 0, 1, 0); };
+for (let s = 0; s < 3000; s++) step(s);
+gc(); gc();
+const N = 20000;
+const h0 = process.memoryUsage().heapUsed;
+for (let s = 0; s < N; s++) step(s);
+const h1 = process.memoryUsage().heapUsed;
+console.log(model, "timing", timing, ((h1 - h0) / N).toFixed(2), "B/step");
