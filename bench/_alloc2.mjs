@@ -5,7 +5,7 @@ const p = model === "bicycle" ? bicycle() : cartPole();
 const ctrl = mppi({ dynamics: p.dynamics, cost: p.cost, horizon: 20, samples: 64, noise: model === "bicycle" ? [0.75, 0.3] : [4], bounds: p.bounds, seed: 3, timing });
 const x0 = p.initialState(); const x = p.initialState();
 const step = (s) => { if (s % 200 === 0) x.set(x0); const { control } = ctrl.act(x); p.dynamics.step(x, 0, control, 0, 1, 0); };
-for (let s = 0; s < 3000; s++) step(s);
+for (let s = 0; s < 5000; s++) step(s);
 const res = [];
 for (const N of [10000, 40000, 10000, 40000]) {
   gc(); gc();

@@ -17,11 +17,12 @@
  *   1 kinematic bicycle (4 states, Kong et al. 2015): one RK4 step with constant (a, delta);
  *     quadratic cost to a goal with wrapped heading + soft speed-limit penalty.
  *
- * Input (stdin, whitespace separated): model K H slice warmup steps; nparams params...;
+ * Input (stdin, whitespace separated): model K H slice warmup steps phases; nparams params...;
  * x0[n]; mean0[H m]; std[H m]; lower[m]; upper[m]; lambda; nslices, then per slice 10 int32 words
  * (s0..s3 bits nbits a0..a3); ziggurat r, k[256], w[256], f[256].
  * Output (stdout, one JSON object): steps_per_s (wall clock), steps_per_cpu_s (process CPU time),
- * seconds, steps, the final plan and state.
+ * seconds, steps, the final plan and state; with phases = 1 also phase_seconds, the wall time of
+ * the timed steps spent in [normals, mu + sigma z, clip, rollout, weights + update + shift].
  *
  * Build: gcc -O2 -ffp-contract=off -o mppi mppi.c -lm
  */
@@ -232,7 +233,15 @@ typedef struct {
   unsigned char *failed;
   stream_t *streams;
   ziggurat_t zig;
+  int phases;          /* 1: accumulate the wall time of each phase into phase_s */
+  double phase_s[5];   /* normals, mu + sigma z, clip, rollout, weights + update + shift */
 } mppi_t;
+
+static double clock_s(clockid_t id) {
+  struct timespec ts;
+  clock_gettime(id, &ts);
+  return ts.tv_sec + ts.tv_nsec * 1e-9;
+}
 
 static void rollout_slice(mppi_t *c, const double *x0, int first, int count) {
   const int n = c->md.n, m = c->md.m, H = c->H, hm = H * m;
@@ -271,11 +280,14 @@ static void mppi_step(mppi_t *c, const double *x0, double *u_out) {
     const int from = s * c->slice;
     const int count = from + c->slice <= K ? c->slice : K - from;
     double *out = buf + (long)from * len;
+    double t = c->phases ? clock_s(CLOCK_MONOTONIC) : 0, t1 = 0;
     fill_normal(&c->streams[s], &c->zig, out, (long)count * len);
+    if (c->phases) c->phase_s[0] += (t1 = clock_s(CLOCK_MONOTONIC)) - t, t = t1;
     for (int k = 0; k < count; k++) {
       double *row = out + (long)k * len;
       for (int p = 0; p < len; p++) row[p] = c->mean[p] + c->std[p] * row[p];
     }
+    if (c->phases) c->phase_s[1] += (t1 = clock_s(CLOCK_MONOTONIC)) - t, t = t1;
     const long start = (long)from * len, end = (long)(from + count) * len;
     if (m == 1) {
       const double l = c->lower[0], h = c->upper[0];
@@ -291,8 +303,11 @@ static void mppi_step(mppi_t *c, const double *x0, double *u_out) {
         }
       }
     }
+    if (c->phases) c->phase_s[2] += (t1 = clock_s(CLOCK_MONOTONIC)) - t, t = t1;
     rollout_slice(c, x0, from, count);
+    if (c->phases) c->phase_s[3] += clock_s(CLOCK_MONOTONIC) - t;
   }
+  const double tw = c->phases ? clock_s(CLOCK_MONOTONIC) : 0;
   /* exponential weights, min cost subtracted, normalized in the log domain */
   double rho = INFINITY;
   for (int i = 0; i < K; i++)
@@ -333,6 +348,7 @@ static void mppi_step(mppi_t *c, const double *x0, double *u_out) {
   for (int j = 0; j < m; j++) u_out[j] = c->mean[j];
   memmove(c->mean, c->mean + m, sizeof(double) * (size_t)((H - 1) * m));
   for (int j = 0; j < m; j++) c->mean[(H - 1) * m + j] = c->initial[(H - 1) * m + j];
+  if (c->phases) c->phase_s[4] += clock_s(CLOCK_MONOTONIC) - tw;
 }
 
 static double read_d(void) {
@@ -360,12 +376,6 @@ static void *alloc(size_t bytes) {
   return p;
 }
 
-static double clock_s(clockid_t id) {
-  struct timespec ts;
-  clock_gettime(id, &ts);
-  return ts.tv_sec + ts.tv_nsec * 1e-9;
-}
-
 int main(void) {
   mppi_t c;
   memset(&c, 0, sizeof c);
@@ -375,6 +385,7 @@ int main(void) {
   c.slice = (int)read_l();
   const long warmup = read_l();
   const long steps = read_l();
+  c.phases = (int)read_l();
   if (c.md.model == 0) {
     c.md.n = 4;
     c.md.m = 1;
@@ -446,6 +457,12 @@ int main(void) {
   for (int i = 0; i < n; i++) printf(i ? ",%.17g" : "%.17g", x[i]);
   printf("],\"plan\":[");
   for (int p = 0; p < len; p++) printf(p ? ",%.17g" : "%.17g", c.mean[p]);
-  printf("]}\n");
+  printf("]");
+  if (c.phases) {
+    printf(",\"phase_seconds\":[");
+    for (int q = 0; q < 5; q++) printf(q ? ",%.9g" : "%.9g", c.phase_s[q]);
+    printf("]");
+  }
+  printf("}\n");
   return 0;
 }

@@ -134,7 +134,7 @@ describe("MPPI reference implementations do the library's work", () => {
   it("nativeInput lists the slice streams' states and the ziggurat tables", () => {
     const { cfg } = cases()[1];
     const lines = nativeInput(cfg).trim().split("\n");
-    expect(lines[0]).toBe(`0 ${K} ${H} 64 0 ${STEPS}`);
+    expect(lines[0]).toBe(`0 ${K} ${H} 64 0 ${STEPS} 0`);
     const slices = lines[8].split(" ").map(Number);
     expect(slices[0]).toBe(Math.ceil(K / 64));
     expect(slices.length).toBe(1 + 10 * slices[0]);

@@ -15,6 +15,13 @@ import type { NativeModel, NativeRunConfig } from "./native.js";
 
 const PI = Math.PI;
 
+/** acc[i] += now − since; returns now. */
+function lap(acc: Float64Array, i: number, since: number): number {
+  const now = performance.now();
+  acc[i] += now - since;
+  return now;
+}
+
 function wrapAngle(a: number): number {
   if (a > -PI && a <= PI) return a;
   const twoPi = 2 * PI;
@@ -34,6 +41,11 @@ export interface ReferenceStep {
   step(x: Float64Array, u: Float64Array): void;
   /** Advance one state in place under control u (the plant = the model). */
   advance(x: Float64Array, u: Float64Array): void;
+  /**
+   * Start accumulating the wall time (ms) of each phase of `step` into the returned array:
+   * [normals, μ + σz, clip, rollout, weights + mean update + shift] (as mppi.c's phase_seconds).
+   */
+  timePhases(): Float64Array;
 }
 
 /** Build the hand-written step for `cfg` (the same configuration the C reads). */
@@ -64,6 +76,7 @@ class MppiReference implements ReferenceStep {
   private readonly scores: Float64Array;
   private readonly weights: Float64Array;
   private readonly failed: Uint8Array;
+  private phases: Float64Array | null = null;
 
   constructor(cfg: NativeRunConfig) {
     this.model = cfg.model;
@@ -94,6 +107,11 @@ class MppiReference implements ReferenceStep {
     this.failed = new Uint8Array(cfg.samples);
   }
 
+  timePhases(): Float64Array {
+    this.phases = new Float64Array(5);
+    return this.phases;
+  }
+
   advance(x: Float64Array, u: Float64Array): void {
     if (this.model === "cart-pole") cartPoleStep(this.p, x, 0, u, 0, 1);
     else bicycleStep(this.p, x, 0, u, 0, 1);
@@ -109,14 +127,19 @@ class MppiReference implements ReferenceStep {
     const std = this.std;
     const lower = this.lower;
     const upper = this.upper;
+    const ph = this.phases;
+    let t = 0;
     for (let s = 0; s < this.streams.length; s++) {
       const from = s * this.slice;
       const count = from + this.slice <= K ? this.slice : K - from;
+      if (ph !== null) t = performance.now();
       this.streams[s].fillNormal(buf, from * len, count * len);
+      if (ph !== null) t = lap(ph, 0, t);
       for (let k = from; k < from + count; k++) {
         const base = k * len;
         for (let p = 0; p < len; p++) buf[base + p] = mean[p] + std[p] * buf[base + p];
       }
+      if (ph !== null) t = lap(ph, 1, t);
       const start = from * len;
       const end = (from + count) * len;
       if (m === 1) {
@@ -129,8 +152,11 @@ class MppiReference implements ReferenceStep {
             buf[p + j] = Math.min(Math.max(buf[p + j], lower[j]), upper[j]);
         }
       }
+      if (ph !== null) t = lap(ph, 2, t);
       this.rollout(x0, from, count);
+      if (ph !== null) t = lap(ph, 3, t);
     }
+    if (ph !== null) t = performance.now();
     const costs = this.costs;
     const scores = this.scores;
     const w = this.weights;
@@ -171,6 +197,7 @@ class MppiReference implements ReferenceStep {
     for (let j = 0; j < m; j++) uOut[j] = mean[j];
     mean.copyWithin(0, m, H * m);
     for (let j = 0; j < m; j++) mean[(H - 1) * m + j] = this.initial[(H - 1) * m + j];
+    if (ph !== null) lap(ph, 4, t);
   }
 
   private rollout(x0: Float64Array, first: number, count: number): void {

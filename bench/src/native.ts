@@ -106,6 +106,8 @@ export interface NativeRunConfig {
   readonly warmup: number;
   /** Timed steps. */
   readonly steps: number;
+  /** Time each phase of the step (adds a few clock reads per slice); default false. */
+  readonly phases?: boolean;
   /** Model parameters in mppi.c's order (see the comments there). */
   readonly params: readonly number[];
   /** Start state (n). */
@@ -134,6 +136,11 @@ export interface NativeRunResult {
   readonly state: number[];
   /** Plan after the last step (after the shift). */
   readonly plan: number[];
+  /**
+   * With `phases`: wall seconds of the timed steps spent in normals, μ + σz, clip, rollout, and
+   * weights + mean update + shift.
+   */
+  readonly phase_seconds?: number[];
 }
 
 /**
@@ -191,6 +198,7 @@ export function nativeInput(cfg: NativeRunConfig): string {
       cfg.sliceSize,
       cfg.warmup,
       cfg.steps,
+      cfg.phases ? 1 : 0,
     ].join(" "),
     [cfg.params.length, ...cfg.params.map(num)].join(" "),
     Array.from(cfg.state, num).join(" "),

@@ -56,7 +56,7 @@ describe("pnpm demo --quick", () => {
       );
     }
     const md = readFileSync(files.reportMd, "utf8");
-    for (const o of ["MPPI", "CEM", "γ=0.7", "LQR (hover)", "DAgger policy"])
+    for (const o of ["MPPI", "CEM", "γ=0.7", "LQR (hover gain, glide path)", "DAgger policy"])
       expect(md).toContain(o);
     expect(md).toContain("touchdown speed");
     for (const c of promisedCharts) {

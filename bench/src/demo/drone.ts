@@ -202,7 +202,7 @@ export const DRONE_WEIGHTS: {
    */
   aimHeight: -0.5,
   /** Weight w_L of the landed state's normalized touchdown figures, per remaining step. */
-  touchdown: 2,
+  touchdown: 10,
   /** Weight w_F of their excess over the margin, per remaining step. */
   touchdownExcess: 200,
   /** Margin ρ: touchdown figures beyond ρ × their threshold are penalized steeply. */

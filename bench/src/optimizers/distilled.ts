@@ -51,6 +51,12 @@ export const distilledDefinition: OptimizerDefinition = {
       default: 32,
       description: "width of each of the MLP's two hidden layers",
     },
+    expertSamples: {
+      type: "integer",
+      min: 1,
+      description:
+        "label with the expert's configuration but this many samples K (a cheaper expert for training); default: the expert's own",
+    },
     rounds: { type: "integer", min: 1, default: 4, description: "DAgger rounds" },
     episodesPerRound: {
       type: "integer",
@@ -87,7 +93,11 @@ export const distilledDefinition: OptimizerDefinition = {
     if (!entry) throw new Error(`distilled: no expert optimizer "${label}" in the sweep`);
     const expertDef = ctx.registry.optimizer(entry.kind);
     if (!expertDef) throw new Error(`distilled: unknown expert kind "${entry.kind}"`);
-    const expert = await expertDef.create(entry.params, problem, ctx);
+    const expertParams =
+      params.expertSamples === undefined
+        ? entry.params
+        : { ...entry.params, samples: params.expertSamples as number };
+    const expert = await expertDef.create(expertParams, problem, ctx);
     const n = problem.stateSize;
     const m = problem.controlSize;
     let step = 0;

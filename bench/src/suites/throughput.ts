@@ -443,6 +443,33 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
         `${mc.model} rep ${r + 1}/${reps}: library ${lib[r].toFixed(1)}, JS ceiling ${js[r].toFixed(1)}${native.ok ? `, native ${nat[r].toFixed(1)}` : ""} steps/s`,
       );
     }
+    // Where the time goes in the two hand-written steps (a separate, untimed-for-throughput run).
+    const phaseSteps = ctx.quick ? 3 : 10;
+    const phaseNames = ["normals", "mu_plus_sigma_z", "clip", "rollout", "weights_update_shift"];
+    const perStep = (v: ArrayLike<number>, scale: number): Record<string, number> =>
+      Object.fromEntries(phaseNames.map((k, q) => [k, round((v[q] * scale) / phaseSteps, 3)]));
+    const ceilingPhases = (() => {
+      const ref = referenceStep(config(mc, warmup, phaseSteps));
+      const x = mc.problem.initialState();
+      const u = new Float64Array(mc.problem.controlSize);
+      for (let s = 0; s < warmup; s++) {
+        ref.step(x, u);
+        ref.advance(x, u);
+      }
+      const acc = ref.timePhases();
+      for (let s = 0; s < phaseSteps; s++) {
+        ref.step(x, u);
+        ref.advance(x, u);
+      }
+      return perStep(acc, 1);
+    })();
+    const nativePhases = native.ok
+      ? perStep(
+          runNative(native.binary, { ...config(mc, warmup, phaseSteps), phases: true })
+            .phase_seconds as number[],
+          1000,
+        )
+      : null;
     const libMed = median(lib);
     const jsMed = median(js);
     const natMed = native.ok ? median(nat) : null;
@@ -475,6 +502,11 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
         library: lib.map((v) => round(v)),
         js_ceiling: js.map((v) => round(v)),
         native: nat.map((v) => round(v)),
+      },
+      phase_ms_per_step: {
+        note: "wall ms per step by phase, from a separate run with clock reads around each phase",
+        js_ceiling: ceilingPhases,
+        native: nativePhases,
       },
       same_work_check: {
         steps: checkSteps,

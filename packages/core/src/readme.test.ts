@@ -1,21 +1,17 @@
 import { readFileSync } from "node:fs";
 import * as core from "@recede/core";
-import { type PreparedSnippet, prepareSnippet, readmeSnippets } from "@recede/testkit";
+import { readmeSnippets, runSnippet } from "@recede/testkit";
 import { describe, expect, it } from "vitest";
 
 // The package README's code samples, run as written (imports bound to this package), so the
 // documentation cannot rot; then the values they leave behind are checked.
-const AsyncFunction = Object.getPrototypeOf(async () => {}).constructor as new (
-  ...params: string[]
-) => (...values: unknown[]) => Promise<Record<string, unknown>>;
-const run = (p: PreparedSnippet) => new AsyncFunction(...p.params, p.source)(...p.values);
 
 const snippets = readmeSnippets(readFileSync(new URL("../README.md", import.meta.url), "utf8"));
 
 describe("README samples", () => {
   it("has one sample, and it runs", async () => {
     expect(snippets.length).toBe(1);
-    const out = await run(prepareSnippet(snippets[0], { "@recede/core": core }));
+    const out = await runSnippet(snippets[0], { "@recede/core": core });
     const ogd = out.ogd as core.MirrorDescentLearner;
     const hedge = out.hedge as core.MirrorDescentLearner;
     // OGD: x₂ = x₁ − η₁g with η₁ = 0.5/√1, inside the unit ball (Zinkevich 2003).

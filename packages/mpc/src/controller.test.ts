@@ -80,6 +80,7 @@ describe("createController", () => {
         iterations: 3,
         loss: eliteFraction({ fraction: 0.2 }),
         plan: gaussianPlan({ std: 1, adaptVariance: true }),
+        timing: true,
       }),
     );
     const { report } = ctrl.act(x0);
@@ -93,6 +94,8 @@ describe("createController", () => {
     expect(report.weightEntropy).toBeCloseTo(Math.log(20), 10);
     expect(report.wallTimeMs).toBeGreaterThanOrEqual(0);
     expect(report.loss).toBeGreaterThanOrEqual(report.costMin);
+    // Timing is opt-in (clock reads allocate on Node 20): without it the report carries NaN.
+    expect(Number.isNaN(createController(base()).act(x0).report.wallTimeMs)).toBe(true);
   });
 
   it("emits one RoundRecord per step: decision = plan before the update, loss = report.loss", () => {

@@ -75,10 +75,11 @@ export interface ControllerParts {
   /** Name used in error messages and reports. @defaultValue "controller" */
   readonly name?: string;
   /**
-   * Measure `report.wallTimeMs` with two `performance.now()` reads per step. On Node 20 each read
-   * allocates a boxed double (about 12–16 bytes); set false for strictly allocation-free steps
-   * (the report then carries NaN).
-   * @defaultValue true
+   * Measure `report.wallTimeMs` with two `performance.now()` reads per step. On Node 20 every
+   * clock read allocates (16 bytes per `performance.now()`, measured), so timing is opt-in: the
+   * default step allocates nothing after warm-up (`report.wallTimeMs` is then NaN). Time the
+   * control loop yourself, or set true (32 bytes per step).
+   * @defaultValue false
    */
   readonly timing?: boolean;
   /**
@@ -380,7 +381,7 @@ export function createController(parts: ControllerParts): Controller {
       );
     }
   }
-  const timing = parts.timing ?? true;
+  const timing = parts.timing ?? false;
   if (typeof timing !== "boolean") throw new RecedeError("type", fn, "timing", "a boolean", timing);
   const seed = parts.seed ?? 0;
   const root = createStream(seed);
@@ -502,8 +503,8 @@ class GenericController implements Controller {
   private readonly slices: number;
   private readonly actName: string;
   private readonly exec: SliceExecutor | null;
-  /** [t0] of the running `act`, so the clock reading stays an unboxed double. */
-  private readonly clock: Float64Array = new Float64Array(1);
+  /** Scratch doubles kept unboxed (see `weigh`). */
+  private readonly scalars: Float64Array = new Float64Array(1);
 
   constructor(
     readonly name: string,
@@ -704,7 +705,9 @@ class GenericController implements Controller {
     rep.failedSamples += failures;
     const costs = rollout.costs;
     const w = this.weights;
-    const value = failures < k ? loss.weigh(costs, k, w) : Number.NaN;
+    if (failures < k) this.weigh(costs, k, w);
+    else this.scalars[0] = Number.NaN;
+    const value = this.scalars[0];
     // Weight summaries (and a guard against a loss that produced unusable weights).
     let abs = 0;
     let sq = 0;
@@ -742,6 +745,14 @@ class GenericController implements Controller {
     }
     dist.update(buf, k, w, loss.normalized, gamma);
     if (dist.meanIsParameter) this.clipMean();
+  }
+
+  /**
+   * scalars[0] ← loss.weigh(…). A double returned across a call V8 does not inline is boxed on
+   * the heap; this small method (into which `weigh` is inlined) keeps it in a Float64Array.
+   */
+  private weigh(costs: Float64Array, k: number, w: Float64Array): void {
+    this.scalars[0] = this.loss!.weigh(costs, k, w);
   }
 
   private objectiveStep(x: Float64Array, it: number): void {

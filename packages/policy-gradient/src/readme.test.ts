@@ -3,7 +3,7 @@ import * as core from "@recede/core";
 import * as pg from "@recede/policy-gradient";
 import { lqrPolicyProblem } from "@recede/policy-gradient";
 import * as problems from "@recede/problems";
-import { type PreparedSnippet, prepareSnippet, readmeSnippets } from "@recede/testkit";
+import { readmeSnippets, runSnippet } from "@recede/testkit";
 import { describe, expect, it } from "vitest";
 
 // The README's samples, run as written (imports bound to the packages), so the documentation
@@ -11,10 +11,6 @@ import { describe, expect, it } from "vitest";
 // given the first one's `env` and, as `expert`, the LQR gain K* of the double integrator from
 // scipy.linalg.solve_discrete_are (fixture lqr_gradient.json, "double-integrator"; Δt = 0.1,
 // Q = I, R = 0.1 — the README's problem uses the same defaults).
-const AsyncFunction = Object.getPrototypeOf(async () => {}).constructor as new (
-  ...params: string[]
-) => (...values: unknown[]) => Promise<Record<string, unknown>>;
-const run = (p: PreparedSnippet) => new AsyncFunction(...p.params, p.source)(...p.values);
 const snippets = readmeSnippets(readFileSync(new URL("../README.md", import.meta.url), "utf8"));
 const fixture = JSON.parse(
   readFileSync(new URL("../fixtures/lqr_gradient.json", import.meta.url), "utf8"),
@@ -33,7 +29,7 @@ describe("documentation examples", () => {
 
   it("README: train a policy (the trained policy beats its initial one)", async () => {
     expect(snippets.length).toBe(2);
-    first = await run(prepareSnippet(snippets[0], modules));
+    first = await runSnippet(snippets[0], modules);
     const env = first.env as pg.RolloutEnvironment;
     const policy = first.policy as pg.StochasticPolicy;
     const before = env.evaluate(
@@ -47,8 +43,8 @@ describe("documentation examples", () => {
 
   it("README: distil an expert with DAgger (8 rounds, one episode each)", async () => {
     const expert: pg.Actor = { act: (s) => [-(kStar[0] * s[0] + kStar[1] * s[1])] };
-    const env = first.env ?? (await run(prepareSnippet(snippets[0], modules))).env;
-    const out = await run(prepareSnippet(snippets[1], modules, { env, expert }));
+    const env = first.env ?? (await runSnippet(snippets[0], modules)).env;
+    const out = await runSnippet(snippets[1], modules, { env, expert });
     const result = out.result as pg.ImitationResult;
     expect(result.rounds.length).toBe(8);
     expect(result.parameters.every(Number.isFinite)).toBe(true);

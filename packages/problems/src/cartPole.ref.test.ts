@@ -26,6 +26,18 @@ const fixture: CartPoleFixture = JSON.parse(
 describe("cartPole against outside references", () => {
   const p = cartPole();
 
+  it("defaults are the published parameters (Barto, Sutton & Anderson 1983; Florian 2007)", () => {
+    // A. G. Barto, R. S. Sutton, C. W. Anderson, "Neuronlike Adaptive Elements That Can Solve
+    // Difficult Learning Control Problems", IEEE Trans. SMC, 1983, as restated by R. V. Florian,
+    // "Correct Equations for the Dynamics of the Cart-Pole System", 2007: m_c = 1.0 kg,
+    // m_p = 0.1 kg, half-pole length l = 0.5 m, g = 9.8 m/s², |F| ≤ 10 N, track ±2.4 m,
+    // Euler step τ = 0.02 s (values from memory of those papers).
+    const q = p.parameters;
+    expect([q.cartMass, q.poleMass, q.halfLength, q.gravity]).toEqual([1.0, 0.1, 0.5, 9.8]);
+    expect([q.forceLimit, q.trackLimit, p.dt]).toEqual([10, 2.4, 0.02]);
+    expect([q.cartFriction, q.poleFriction]).toEqual([0, 0]); // the frictionless model by default
+  });
+
   // Source: an independent Newton–Euler model of the uniform-rod cart-pole (pivot forces as
   // unknowns, 4×4 solve by numpy.linalg.solve) in scripts/reference/problems_cartpole.py, with the
   // parameters of Barto, Sutton & Anderson, "Neuronlike Adaptive Elements …", IEEE Trans. SMC, 1983.

@@ -1,21 +1,17 @@
 import { readFileSync } from "node:fs";
 import * as problems from "@recede/problems";
-import { type PreparedSnippet, prepareSnippet, readmeSnippets } from "@recede/testkit";
+import { readmeSnippets, runSnippet } from "@recede/testkit";
 import { describe, expect, it } from "vitest";
 
 // The package README's code sample, run as written (imports bound to this package), so the
 // documentation cannot rot; then the values it leaves behind are checked against what it says.
-const AsyncFunction = Object.getPrototypeOf(async () => {}).constructor as new (
-  ...params: string[]
-) => (...values: unknown[]) => Promise<Record<string, unknown>>;
-const run = (p: PreparedSnippet) => new AsyncFunction(...p.params, p.source)(...p.values);
 
 const snippets = readmeSnippets(readFileSync(new URL("../README.md", import.meta.url), "utf8"));
 
 describe("README samples", () => {
   it("has one sample, and it does what its comments say", async () => {
     expect(snippets.length).toBe(1);
-    const out = await run(prepareSnippet(snippets[0], { "@recede/problems": problems }));
+    const out = await runSnippet(snippets[0], { "@recede/problems": problems });
     const x = out.x as Float64Array;
     const c = out.c as Float64Array;
     // Started hanging at (0, 0, π, 0); one 0.02 s step under F = 3 N moves the cart forward.

@@ -49,9 +49,15 @@ export interface QuadraticMinimum {
 
 /** Options of {@link minimizeQuadratic}. */
 export interface QuadraticMinimumOptions {
-  /** Box lower corner a (with `upper`); omit both for the unconstrained problem. */
+  /**
+   * Box lower corner a (with `upper`); omit both for the unconstrained problem.
+   * @defaultValue none (unconstrained)
+   */
   readonly lower?: Float64Array;
-  /** Box upper corner b. */
+  /**
+   * Box upper corner b.
+   * @defaultValue none (unconstrained)
+   */
   readonly upper?: Float64Array;
   /** Added constant c. @defaultValue 0 */
   readonly constant?: number;
@@ -206,7 +212,7 @@ export class QuadraticSolver {
     const d = this.d;
     const { g, trial, rhs, free, sub, chol } = this;
     const rep = this.report;
-    for (let i = 0; i < d; i++) g[i] = kernels.dot(d, A, oa + i * d, x, 0) + b[ob + i];
+    gradientInto(d, A, oa, b, ob, x, g);
     let nf = 0;
     for (let i = 0; i < d; i++) {
       const eps = 1e-8 * (1 + hi[i] - lo[i]);
@@ -236,7 +242,8 @@ export class QuadraticSolver {
         trial[fi] = rhs[r];
       }
     }
-    const res = residualOf(d, A, oa, b, ob, lo, hi, trial);
+    // g is free again: reuse it for the gradient at the trial point.
+    const res = projectedResidual(d, trial, gradientInto(d, A, oa, b, ob, trial, g), lo, hi);
     if (res <= rep.residual) {
       kernels.copy(d, trial, 0, x, 0);
       rep.residual = res;
@@ -266,11 +273,7 @@ export class QuadraticSolver {
     const sigma = 1e-4;
     rep.status = "max-iterations";
     for (let it = 0; it <= maxIt; it++) {
-      for (let i = 0; i < d; i++) g[i] = kernels.dot(d, A, oa + i * d, x, 0) + b[ob + i];
-      let res = 0;
-      for (let i = 0; i < d; i++) {
-        res = Math.max(res, Math.abs(x[i] - clamp(x[i] - g[i], lo[i], hi[i])));
-      }
+      const res = projectedResidual(d, x, gradientInto(d, A, oa, b, ob, x, g), lo, hi);
       rep.residual = res;
       rep.iterations = it;
       if (res <= threshold) {
@@ -331,21 +334,31 @@ function isFree(free: Int32Array, nf: number, j: number): boolean {
   return false;
 }
 
-function residualOf(
+/** g ← ∇f(x) = A x + b (A row-major d×d at `oa`, b at `ob`). Returns `g`. */
+function gradientInto(
   d: number,
   A: Float64Array,
   oa: number,
   b: Float64Array,
   ob: number,
+  x: Float64Array,
+  g: Float64Array,
+): Float64Array {
+  for (let i = 0; i < d; i++) g[i] = kernels.dot(d, A, oa + i * d, x, 0) + b[ob + i];
+  return g;
+}
+
+/** ‖x − Π_[lo, hi](x − g)‖∞, the projected-gradient residual (zero exactly at a KKT point). */
+function projectedResidual(
+  d: number,
+  x: Float64Array,
+  g: Float64Array,
   lo: Float64Array,
   hi: Float64Array,
-  x: Float64Array,
 ): number {
   let res = 0;
-  for (let i = 0; i < d; i++) {
-    const g = kernels.dot(d, A, oa + i * d, x, 0) + b[ob + i];
-    res = Math.max(res, Math.abs(x[i] - clamp(x[i] - g, lo[i], hi[i])));
-  }
+  for (let i = 0; i < d; i++)
+    res = Math.max(res, Math.abs(x[i] - clamp(x[i] - g[i], lo[i], hi[i])));
   return res;
 }
 

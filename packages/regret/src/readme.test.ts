@@ -1,27 +1,21 @@
 import { readFileSync } from "node:fs";
 import * as core from "@recede/core";
 import * as regret from "@recede/regret";
-import { type PreparedSnippet, prepareSnippet, readmeSnippets } from "@recede/testkit";
+import { readmeSnippets, runSnippet } from "@recede/testkit";
 import { describe, expect, it } from "vitest";
 
 // The package README's quick start, run as written (imports bound to the packages), so the
 // documentation cannot rot; then the claims in its comments are checked.
-const AsyncFunction = Object.getPrototypeOf(async () => {}).constructor as new (
-  ...params: string[]
-) => (...values: unknown[]) => Promise<Record<string, unknown>>;
-const run = (p: PreparedSnippet) => new AsyncFunction(...p.params, p.source)(...p.values);
 
 const snippets = readmeSnippets(readFileSync(new URL("../README.md", import.meta.url), "utf8"));
 
 describe("README samples", () => {
   it("the quick start runs; measured regret is under the printed bound", async () => {
     const quiet = { log: () => {} };
-    const out = await run(
-      prepareSnippet(
-        snippets[0],
-        { "@recede/core": core, "@recede/regret": regret },
-        { console: quiet },
-      ),
+    const out = await runSnippet(
+      snippets[0],
+      { "@recede/core": core, "@recede/regret": regret },
+      { console: quiet },
     );
     const s = out.s as regret.RegretSummary;
     const bound = out.bound as number;
@@ -36,8 +30,8 @@ describe("README samples", () => {
   });
 
   it("the second sample needs @recede/mpc, which this package does not depend on", () => {
-    // It is run by hand against the workspace (see the review notes); here we pin that it is the
-    // only sample left out and that it imports nothing else this test could not provide.
+    // It was run by hand against the workspace sources in review (2026-12-02, it ran); here we pin
+    // that it is the only sample left out and which packages it needs.
     expect(snippets.length).toBe(2);
     const mods = new Set(snippets[1].imports.map(([m]) => m));
     expect([...mods].sort()).toEqual(["@recede/mpc", "@recede/problems", "@recede/regret"]);

@@ -20,7 +20,7 @@
  */
 
 import type { LossObject, Observable, RoundRecord } from "@recede/core";
-import { kernels, RecedeError, requireInteger } from "@recede/core";
+import { kernels, RecedeError, requireInteger, requireVector } from "@recede/core";
 import type { Domain } from "./domain.js";
 import { linearMinimum } from "./domain.js";
 import { isQuadraticLoss } from "./losses.js";
@@ -70,7 +70,10 @@ export type PathNorm = "l1" | "l2" | "linf";
 export interface RegretTrackerOptions {
   /** d, the length of every decision (and gradient). Required. */
   readonly dimension: number;
-  /** The decision set X for the linear comparator (and the box of the quadratic comparator). */
+  /**
+   * The decision set X for the linear comparator (and the box of the quadratic comparator).
+   * @defaultValue none (no linear comparator)
+   */
   readonly domain?: Domain;
   /**
    * Track the linear(ized) static regret Σ⟨g_t, x_t⟩ − min_{u∈X}⟨Σ g_t, u⟩ over `domain` (needs a
@@ -84,11 +87,20 @@ export interface RegretTrackerOptions {
    * @defaultValue false
    */
   readonly quadratic?: boolean;
-  /** A finite set of experts/policies; each is evaluated on every round's loss object. */
+  /**
+   * A finite set of experts/policies; each is evaluated on every round's loss object.
+   * @defaultValue none (no expert comparator)
+   */
   readonly experts?: readonly Expert[];
-  /** The comparator sequence u_{1:T} for dynamic regret (needs a loss object every round). */
+  /**
+   * The comparator sequence u_{1:T} for dynamic regret (needs a loss object every round).
+   * @defaultValue none (no dynamic regret)
+   */
   readonly comparator?: ComparatorSequence;
-  /** The dynamical model Φ_t for the Φ-path length (needs `comparator`). */
+  /**
+   * The dynamical model Φ_t for the Φ-path length (needs `comparator`).
+   * @defaultValue none (no Φ-path length)
+   */
   readonly dynamics?: DynamicModel;
   /** Norm of the path lengths. @defaultValue "l2" */
   readonly pathNorm?: PathNorm;
@@ -109,6 +121,7 @@ export interface RegretTrackerOptions {
    * w for adaptive regret: AR_T(w) = max over windows [s, s+w−1] ⊆ [1, T] of the window's static
    * regret against the window's best fixed comparator (each enabled static kind); when T < w, the
    * single window [1, T]. Off when omitted.
+   * @defaultValue none (no adaptive regret)
    */
   readonly adaptiveWindow?: number;
   /**
@@ -625,16 +638,7 @@ export class RegretTracker {
     if (input === null || typeof input !== "object") {
       throw new RecedeError("type", fn, "round", "a round object", input);
     }
-    const x = input.decision;
-    if (!(x instanceof Float64Array)) {
-      throw new RecedeError("type", fn, "decision", `a Float64Array of length ${d}`, x);
-    }
-    if (x.length !== d) throw new RecedeError("dimension", fn, "decision", `of length ${d}`, x);
-    for (let i = 0; i < d; i++) {
-      if (!Number.isFinite(x[i])) {
-        throw new RecedeError("non-finite", fn, `decision[${i}]`, "finite", x[i]);
-      }
-    }
+    const x = requireVector(fn, "decision", input.decision, d);
     const lo = input.lossObject;
     if (
       lo !== undefined &&

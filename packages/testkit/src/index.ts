@@ -32,5 +32,6 @@ export {
   prepareSnippet,
   type ReadmeSnippet,
   readmeSnippets,
+  runSnippet,
 } from "./readme.js";
 export { catchRecedeError, type ExpectedError } from "./typedError.js";

@@ -63,8 +63,8 @@ export interface PreparedSnippet {
  * Bind a sample's imports to `modules[specifier][name]` and put `context` names (for samples that
  * continue an earlier one) in scope. The test compiles `source` as the body of an async function
  * of `params` and calls it with `values`; it resolves to the sample's top-level declarations.
- * (Compiling is left to the test file: this package holds no code generation.) Throws if the
- * sample imports a module or a name that is not provided.
+ * {@link runSnippet} does both steps. Throws if the sample imports a module or a name that is not
+ * provided.
  */
 export function prepareSnippet(
   snippet: ReadmeSnippet,
@@ -89,4 +89,22 @@ export function prepareSnippet(
     values.push(v);
   }
   return { params, values, source: `${snippet.body}\nreturn { ${snippet.declared.join(", ")} };` };
+}
+
+const AsyncFunction = Object.getPrototypeOf(async () => {}).constructor as new (
+  ...params: string[]
+) => (...values: unknown[]) => Promise<Record<string, unknown>>;
+
+/**
+ * Compile and run a sample (see {@link prepareSnippet}); resolves to its top-level declarations.
+ * This compiles code at run time, which is why it lives here, in the private test kit that no
+ * published package imports, and never in library code.
+ */
+export function runSnippet(
+  snippet: ReadmeSnippet,
+  modules: Readonly<Record<string, Readonly<Record<string, unknown>>>>,
+  context: Readonly<Record<string, unknown>> = {},
+): Promise<Record<string, unknown>> {
+  const p = prepareSnippet(snippet, modules, context);
+  return new AsyncFunction(...p.params, p.source)(...p.values);
 }

@@ -41,7 +41,7 @@ export interface MppiOptions {
   readonly seed?: number | string;
   /** Samples per random-stream slice. @defaultValue 64 */
   readonly sliceSize?: number;
-  /** Measure `report.wallTimeMs` (two clock reads per step; see ControllerParts.timing). @defaultValue true */
+  /** Measure `report.wallTimeMs` (two clock reads, 32 bytes per step; see ControllerParts.timing). @defaultValue false */
   readonly timing?: boolean;
   /** Rollout worker threads (see ControllerParts.workers). @defaultValue none */
   readonly workers?: RolloutWorkers;

@@ -460,7 +460,9 @@ export class RolloutEnvironment {
  *
  * One episode: x₀ ∼ initial law; for t = 0..T−1: a_t from the policy, u_t = clip(map(a_t)),
  * c_t = c(x_t, u_t, t), x_{t+1} = f(x_t, u_t, t) + w_t; then c_H(x_T). Symbols ↔ options:
- * f ↔ `dynamics`, c, c_H ↔ `cost`, T ↔ `horizon`, w_t ↔ `disturbanceStd`.
+ * f ↔ `dynamics`, c, c_H ↔ `cost`, T ↔ `horizon`, w_t ↔ `disturbanceStd`. The episodic,
+ * finite-horizon setting is the usual one (common practice; R. S. Sutton, A. G. Barto,
+ * "Reinforcement Learning: An Introduction", 2nd ed., 2018, §3.4), written with costs.
  *
  * @example
  * ```ts
@@ -556,7 +558,8 @@ export interface ProblemEnvironmentOptions {
 
 /**
  * A batched episodic environment on a reference problem of `@recede/problems`: its dynamics,
- * cost, control bounds (controls are clipped), start state and episode length.
+ * cost, control bounds (controls are clipped), start state and episode length — the episode of
+ * {@link rolloutEnvironment} with f, c, c_H, bounds and T taken from `problem`.
  *
  * @example
  * ```ts

@@ -5,7 +5,12 @@
  */
 import { RecedeError } from "@recede/core";
 import { EpisodeBatch } from "../environment/episodeBatch.js";
-import { CompactionScratch, scoredFromBatch } from "../internal/compact.js";
+import {
+  CompactionScratch,
+  FitScratch,
+  fitOnActiveSteps,
+  scoredFromBatch,
+} from "../internal/compact.js";
 import { requireUnitClosed, requireUnitHalfOpen } from "../internal/validate.js";
 import type { GradientEstimator } from "./reinforce.js";
 import type { ScoredSamples } from "./scoredSamples.js";
@@ -58,10 +63,8 @@ export class GaeEstimator implements GradientEstimator {
   private advantages: Float64Array = new Float64Array(0);
   private weights: Float64Array = new Float64Array(0);
   private targets: Float64Array = new Float64Array(0);
-  private times: Int32Array = new Int32Array(0);
-  private ctimes: Int32Array = new Int32Array(0);
   private readonly scratch: CompactionScratch = new CompactionScratch();
-  private readonly fitScratch: CompactionScratch = new CompactionScratch();
+  private readonly fitScratch: FitScratch = new FitScratch();
 
   /** Use {@link gae}; the constructor trusts validated options. */
   constructor(
@@ -113,8 +116,6 @@ export class GaeEstimator implements GradientEstimator {
       this.advantages = new Float64Array(N);
       this.weights = new Float64Array(N);
       this.targets = new Float64Array(N);
-      this.times = new Int32Array(N);
-      for (let i = 0; i < N; i++) this.times[i] = i % T;
     }
     const v = this.values;
     const A = this.advantages;
@@ -139,14 +140,7 @@ export class GaeEstimator implements GradientEstimator {
       }
     }
     for (let i = 0; i < N; i++) this.targets[i] = A[i] + v[i];
-    if (batch.complete) V.fit(batch.states, this.times, this.targets, N);
-    else {
-      const c = scoredFromBatch(batch, this.targets, this.fitScratch);
-      let k = 0;
-      if (this.ctimes.length < c.count) this.ctimes = new Int32Array(c.count);
-      for (let e = 0; e < E; e++) for (let t = 0; t < L[e]; t++) this.ctimes[k++] = t;
-      V.fit(c.states, this.ctimes, c.weights, c.count);
-    }
+    fitOnActiveSteps(V, batch, this.targets, this.fitScratch);
     const w = this.weights;
     for (let e = 0; e < E; e++) {
       let d = 1;

@@ -6,7 +6,12 @@
  */
 import { RecedeError } from "@recede/core";
 import { EpisodeBatch } from "../environment/episodeBatch.js";
-import { CompactionScratch, scoredFromBatch } from "../internal/compact.js";
+import {
+  CompactionScratch,
+  FitScratch,
+  fitOnActiveSteps,
+  scoredFromBatch,
+} from "../internal/compact.js";
 import { requireUnitHalfOpen } from "../internal/validate.js";
 import type { ScoredSamples } from "./scoredSamples.js";
 import type { ValueModel } from "./valueFunction.js";
@@ -78,10 +83,8 @@ export class ReinforceEstimator implements GradientEstimator {
   readonly discountWeighting: boolean;
   private returns: Float64Array = new Float64Array(0);
   private weights: Float64Array = new Float64Array(0);
-  private times: Int32Array = new Int32Array(0);
-  private ctimes: Int32Array = new Int32Array(0);
   private readonly scratch: CompactionScratch = new CompactionScratch();
-  private readonly fitScratch: CompactionScratch = new CompactionScratch();
+  private readonly fitScratch: FitScratch = new FitScratch();
 
   /** Use {@link reinforce}; the constructor trusts validated options. */
   constructor(
@@ -104,8 +107,6 @@ export class ReinforceEstimator implements GradientEstimator {
     if (this.returns.length !== N) {
       this.returns = new Float64Array(N);
       this.weights = new Float64Array(N);
-      this.times = new Int32Array(N);
-      for (let i = 0; i < N; i++) this.times[i] = i % T;
     }
     const G = returnsToGo(batch, this.discount, this.returns);
     const w = this.weights;
@@ -130,9 +131,7 @@ export class ReinforceEstimator implements GradientEstimator {
       const n = batch.stateSize;
       for (let i = 0; i < N; i++)
         w[i] = i % T < L[(i - (i % T)) / T] ? G[i] - base.predict(batch.states, i * n, i % T) : 0;
-      const fit = scoredFromBatch(batch, G, this.fitScratch);
-      if (batch.complete) base.fit(batch.states, this.times, G, N);
-      else base.fit(fit.states, this.compactTimes(batch), fit.weights, fit.count);
+      fitOnActiveSteps(base, batch, G, this.fitScratch);
     } else w.set(G);
     if (this.discountWeighting && this.discount !== 1) {
       for (let e = 0; e < E; e++) {
@@ -144,16 +143,6 @@ export class ReinforceEstimator implements GradientEstimator {
       }
     }
     return scoredFromBatch(batch, w, this.scratch);
-  }
-
-  private compactTimes(batch: EpisodeBatch): Int32Array {
-    let N = 0;
-    for (let e = 0; e < batch.episodes; e++) N += batch.lengths[e];
-    if (this.ctimes.length < N) this.ctimes = new Int32Array(N);
-    let k = 0;
-    for (let e = 0; e < batch.episodes; e++)
-      for (let t = 0; t < batch.lengths[e]; t++) this.ctimes[k++] = t;
-    return this.ctimes;
   }
 }
 

@@ -6,6 +6,7 @@
  */
 import type { EpisodeBatch } from "../environment/episodeBatch.js";
 import type { ScoredSamples } from "../estimators/scoredSamples.js";
+import type { ValueModel } from "../estimators/valueFunction.js";
 
 /** Reusable buffers for compaction. */
 export class CompactionScratch {
@@ -62,4 +63,33 @@ export function scoredFromBatch(
     weights: scratch.weights,
     normalizer: E,
   };
+}
+
+/** Reusable buffers for {@link fitOnActiveSteps}: compaction buffers plus the time indices. */
+export class FitScratch extends CompactionScratch {
+  times: Int32Array = new Int32Array(0);
+}
+
+/**
+ * Fit `model` on `targets` (sample-major, length E·T) at the batch's active steps: all E·T samples
+ * with times t = i mod T when no episode terminated early, otherwise the compacted active steps
+ * with their own times.
+ */
+export function fitOnActiveSteps(
+  model: ValueModel,
+  batch: EpisodeBatch,
+  targets: Float64Array,
+  scratch: FitScratch,
+): void {
+  const E = batch.episodes;
+  const T = batch.horizon;
+  const c = scoredFromBatch(batch, targets, scratch);
+  if (scratch.times.length < c.count) scratch.times = new Int32Array(c.count);
+  const times = scratch.times;
+  let k = 0;
+  for (let e = 0; e < E; e++) {
+    const len = batch.complete ? T : batch.lengths[e];
+    for (let t = 0; t < len; t++) times[k++] = t;
+  }
+  model.fit(c.states, times, c.weights, c.count);
 }

@@ -10,6 +10,7 @@
  *
  * @module
  */
+import type { StochasticPolicy } from "../policies/policy.js";
 
 const HALF_LOG_2PI = 0.5 * Math.log(2 * Math.PI);
 
@@ -106,4 +107,32 @@ export function finishGaussianFisher(
   for (let p = 0; p < ls; p++) out[p] *= inv;
   for (let j = 0; j < m; j++) out[ls + j] = 2 * v[ls + j];
   return out;
+}
+
+/**
+ * Mean KL over `count` states, (1/count) Σ_k KL(N(μ_o(s_k), σ_o²) ‖ N(μ_n(s_k), σ_n²)), with the
+ * means from `policy.mean` (the Gaussian families' deployment action is μ) written into the
+ * scratch vectors `muO`, `muN` (length m) and the log-stds at `ls` in θ_o, θ_n.
+ */
+export function gaussianMeanKl(
+  policy: StochasticPolicy,
+  ls: number,
+  thetaO: Float64Array,
+  thetaN: Float64Array,
+  states: Float64Array,
+  so: number,
+  count: number,
+  muO: Float64Array,
+  muN: Float64Array,
+): number {
+  const n = policy.stateSize;
+  const m = policy.actionSize;
+  let s = 0;
+  for (let k = 0; k < count; k++) {
+    const xo = so + k * n;
+    policy.mean(thetaO, states, xo, muO, 0);
+    policy.mean(thetaN, states, xo, muN, 0);
+    s += gaussianKl(m, muO, muN, thetaO, thetaN, ls);
+  }
+  return count > 0 ? s / count : 0;
 }

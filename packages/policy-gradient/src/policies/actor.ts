@@ -12,6 +12,7 @@ export interface PolicyActorOptions {
   /**
    * For a categorical policy: the control vector of each discrete action (N rows × m columns).
    * When omitted, `act` returns the action index as a one-entry array.
+   * @defaultValue none (required for categorical policies)
    */
   readonly controls?: MatrixInput;
 }

@@ -13,8 +13,8 @@ import {
 } from "@recede/core";
 import {
   finishGaussianFisher,
-  gaussianKl,
   gaussianLogProb,
+  gaussianMeanKl,
   gaussianPerturb,
   gaussianScore,
 } from "../internal/gaussianHead.js";
@@ -69,6 +69,7 @@ export class LinearGaussianPolicy implements StochasticPolicy {
   private readonly mu: Float64Array;
   private readonly mu2: Float64Array;
   private readonly dmu: Float64Array;
+  private readonly klMu: Float64Array;
 
   /** Use {@link linearGaussianPolicy}; the constructor trusts validated options. */
   constructor(n: number, m: number, bias: boolean, init: Float64Array) {
@@ -85,6 +86,7 @@ export class LinearGaussianPolicy implements StochasticPolicy {
     this.mu = new Float64Array(m);
     this.mu2 = new Float64Array(m);
     this.dmu = new Float64Array(m);
+    this.klMu = new Float64Array(m);
   }
 
   initialParameters(): Float64Array {
@@ -209,14 +211,8 @@ export class LinearGaussianPolicy implements StochasticPolicy {
     so: number,
     count: number,
   ): number {
-    let s = 0;
-    for (let k = 0; k < count; k++) {
-      const xo = so + k * this.stateSize;
-      this.meanInto(thetaOld, states, xo, this.mu);
-      this.meanInto(thetaNew, states, xo, this.mu2);
-      s += gaussianKl(this.actionSize, this.mu, this.mu2, thetaOld, thetaNew, this.logStdOffset);
-    }
-    return count > 0 ? s / count : 0;
+    const ls = this.logStdOffset;
+    return gaussianMeanKl(this, ls, thetaOld, thetaNew, states, so, count, this.mu2, this.klMu);
   }
 }
 

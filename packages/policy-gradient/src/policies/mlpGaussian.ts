@@ -15,8 +15,8 @@ import {
 } from "@recede/core";
 import {
   finishGaussianFisher,
-  gaussianKl,
   gaussianLogProb,
+  gaussianMeanKl,
   gaussianPerturb,
   gaussianScore,
 } from "../internal/gaussianHead.js";
@@ -389,18 +389,8 @@ export class MlpGaussianPolicy implements StochasticPolicy {
     so: number,
     count: number,
   ): number {
-    const m = this.actionSize;
-    const mo = this.aOff[this.sizes.length - 1];
-    let s = 0;
-    for (let k = 0; k < count; k++) {
-      const xo = so + k * this.stateSize;
-      this.forward(thetaOld, states, xo);
-      for (let j = 0; j < m; j++) this.mu2[j] = this.act[mo + j];
-      this.forward(thetaNew, states, xo);
-      for (let j = 0; j < m; j++) this.dmu[j] = this.act[mo + j];
-      s += gaussianKl(m, this.mu2, this.dmu, thetaOld, thetaNew, this.logStdOffset);
-    }
-    return count > 0 ? s / count : 0;
+    const ls = this.logStdOffset;
+    return gaussianMeanKl(this, ls, thetaOld, thetaNew, states, so, count, this.mu2, this.dmu);
   }
 }
 

@@ -26,7 +26,10 @@ export interface TrainPolicyOptions {
    * @defaultValue 0
    */
   readonly seed?: number | string;
-  /** Called after every round with its record (e.g. to log or to stop early by throwing). */
+  /**
+   * Called after every round with its record (e.g. to log or to stop early by throwing).
+   * @defaultValue none
+   */
   readonly onRound?: (record: TrainingRound) => void;
 }
 
