@@ -21,8 +21,8 @@
  * x0[n]; mean0[H m]; std[H m]; lower[m]; upper[m]; lambda; nslices, then per slice 10 int32 words
  * (s0..s3 bits nbits a0..a3); ziggurat r, k[256], w[256], f[256].
  * Output (stdout, one JSON object): steps_per_s (wall clock), steps_per_cpu_s (process CPU time),
- * seconds, steps, the final plan and state; with phases = 1 also phase_seconds, the wall time of
- * the timed steps spent in [normals, mu + sigma z, clip, rollout, weights + update + shift].
+ * seconds, steps, the final plan and state; with phases = 1 also phase_seconds, the thread CPU
+ * time of the timed steps spent in [normals, mu + sigma z, clip, rollout, weights + update + shift].
  *
  * Build: gcc -O2 -ffp-contract=off -o mppi mppi.c -lm
  */
@@ -233,7 +233,7 @@ typedef struct {
   unsigned char *failed;
   stream_t *streams;
   ziggurat_t zig;
-  int phases;          /* 1: accumulate the wall time of each phase into phase_s */
+  int phases;          /* 1: accumulate the CPU time of each phase into phase_s */
   double phase_s[5];   /* normals, mu + sigma z, clip, rollout, weights + update + shift */
 } mppi_t;
 
@@ -280,14 +280,14 @@ static void mppi_step(mppi_t *c, const double *x0, double *u_out) {
     const int from = s * c->slice;
     const int count = from + c->slice <= K ? c->slice : K - from;
     double *out = buf + (long)from * len;
-    double t = c->phases ? clock_s(CLOCK_MONOTONIC) : 0, t1 = 0;
+    double t = c->phases ? clock_s(CLOCK_THREAD_CPUTIME_ID) : 0, t1 = 0;
     fill_normal(&c->streams[s], &c->zig, out, (long)count * len);
-    if (c->phases) c->phase_s[0] += (t1 = clock_s(CLOCK_MONOTONIC)) - t, t = t1;
+    if (c->phases) c->phase_s[0] += (t1 = clock_s(CLOCK_THREAD_CPUTIME_ID)) - t, t = t1;
     for (int k = 0; k < count; k++) {
       double *row = out + (long)k * len;
       for (int p = 0; p < len; p++) row[p] = c->mean[p] + c->std[p] * row[p];
     }
-    if (c->phases) c->phase_s[1] += (t1 = clock_s(CLOCK_MONOTONIC)) - t, t = t1;
+    if (c->phases) c->phase_s[1] += (t1 = clock_s(CLOCK_THREAD_CPUTIME_ID)) - t, t = t1;
     const long start = (long)from * len, end = (long)(from + count) * len;
     if (m == 1) {
       const double l = c->lower[0], h = c->upper[0];
@@ -303,11 +303,11 @@ static void mppi_step(mppi_t *c, const double *x0, double *u_out) {
         }
       }
     }
-    if (c->phases) c->phase_s[2] += (t1 = clock_s(CLOCK_MONOTONIC)) - t, t = t1;
+    if (c->phases) c->phase_s[2] += (t1 = clock_s(CLOCK_THREAD_CPUTIME_ID)) - t, t = t1;
     rollout_slice(c, x0, from, count);
-    if (c->phases) c->phase_s[3] += clock_s(CLOCK_MONOTONIC) - t;
+    if (c->phases) c->phase_s[3] += clock_s(CLOCK_THREAD_CPUTIME_ID) - t;
   }
-  const double tw = c->phases ? clock_s(CLOCK_MONOTONIC) : 0;
+  const double tw = c->phases ? clock_s(CLOCK_THREAD_CPUTIME_ID) : 0;
   /* exponential weights, min cost subtracted, normalized in the log domain */
   double rho = INFINITY;
   for (int i = 0; i < K; i++)
@@ -348,7 +348,7 @@ static void mppi_step(mppi_t *c, const double *x0, double *u_out) {
   for (int j = 0; j < m; j++) u_out[j] = c->mean[j];
   memmove(c->mean, c->mean + m, sizeof(double) * (size_t)((H - 1) * m));
   for (int j = 0; j < m; j++) c->mean[(H - 1) * m + j] = c->initial[(H - 1) * m + j];
-  if (c->phases) c->phase_s[4] += clock_s(CLOCK_MONOTONIC) - tw;
+  if (c->phases) c->phase_s[4] += clock_s(CLOCK_THREAD_CPUTIME_ID) - tw;
 }
 
 static double read_d(void) {

@@ -15,9 +15,15 @@ import type { NativeModel, NativeRunConfig } from "./native.js";
 
 const PI = Math.PI;
 
-/** acc[i] += now − since; returns now. */
+/** Process CPU time in ms (µs resolution; not disturbed by other processes taking the CPU). */
+function cpuMs(): number {
+  const c = process.cpuUsage();
+  return (c.user + c.system) / 1000;
+}
+
+/** acc[i] += now − since (CPU ms); returns now. */
 function lap(acc: Float64Array, i: number, since: number): number {
-  const now = performance.now();
+  const now = cpuMs();
   acc[i] += now - since;
   return now;
 }
@@ -42,7 +48,7 @@ export interface ReferenceStep {
   /** Advance one state in place under control u (the plant = the model). */
   advance(x: Float64Array, u: Float64Array): void;
   /**
-   * Start accumulating the wall time (ms) of each phase of `step` into the returned array:
+   * Start accumulating the CPU time (ms) of each phase of `step` into the returned array:
    * [normals, μ + σz, clip, rollout, weights + mean update + shift] (as mppi.c's phase_seconds).
    */
   timePhases(): Float64Array;
@@ -132,7 +138,7 @@ class MppiReference implements ReferenceStep {
     for (let s = 0; s < this.streams.length; s++) {
       const from = s * this.slice;
       const count = from + this.slice <= K ? this.slice : K - from;
-      if (ph !== null) t = performance.now();
+      if (ph !== null) t = cpuMs();
       this.streams[s].fillNormal(buf, from * len, count * len);
       if (ph !== null) t = lap(ph, 0, t);
       for (let k = from; k < from + count; k++) {
@@ -156,7 +162,7 @@ class MppiReference implements ReferenceStep {
       this.rollout(x0, from, count);
       if (ph !== null) t = lap(ph, 3, t);
     }
-    if (ph !== null) t = performance.now();
+    if (ph !== null) t = cpuMs();
     const costs = this.costs;
     const scores = this.scores;
     const w = this.weights;

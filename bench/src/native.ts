@@ -106,7 +106,7 @@ export interface NativeRunConfig {
   readonly warmup: number;
   /** Timed steps. */
   readonly steps: number;
-  /** Time each phase of the step (adds a few clock reads per slice); default false. */
+  /** Time each phase of the step in CPU time (a few clock reads per slice); default false. */
   readonly phases?: boolean;
   /** Model parameters in mppi.c's order (see the comments there). */
   readonly params: readonly number[];
@@ -137,8 +137,8 @@ export interface NativeRunResult {
   /** Plan after the last step (after the shift). */
   readonly plan: number[];
   /**
-   * With `phases`: wall seconds of the timed steps spent in normals, μ + σz, clip, rollout, and
-   * weights + mean update + shift.
+   * With `phases`: thread CPU seconds of the timed steps spent in normals, μ + σz, clip, rollout,
+   * and weights + mean update + shift.
    */
   readonly phase_seconds?: number[];
 }

@@ -75,7 +75,10 @@ const WARMUP_STEPS = 10;
  *   0.3 N.
  * - LQR: the DARE gain about hover tracking a glide path (a moving setpoint with a simple
  *   reference governor), saturated to the thrust limits.
- * - DAgger: an affine policy, expert MPPI, 4 rounds of 2 episodes on the wind-free model.
+ * - DAgger: an affine policy, expert MPPI (labelling with K = 256 to keep training short), 4 rounds
+ *   of 2 episodes on the wind-free model with a small random state disturbance (std 0.03 per
+ *   component and step), so the learner also sees, and is taught to correct, states off the
+ *   expert's own path.
  */
 export function demoSweep(quick: boolean): Record<string, unknown> {
   const samples = quick ? 192 : 1024;
@@ -125,7 +128,9 @@ export function demoSweep(quick: boolean): Record<string, unknown> {
         label: "DAgger policy",
         kind: "distilled",
         expert: "MPPI",
+        expertSamples: quick ? 96 : 256,
         rounds: quick ? 2 : 4,
+        trainingNoise: 0.03,
       },
     ],
     seeds: { first: 1, count: quick ? 2 : 5 },
@@ -255,7 +260,7 @@ const KIND_TEXT: Readonly<Record<string, string>> = {
     "A variant derived from the generic controller: MPPI's loss with a partial mirror step γ < 1 and the sampling covariance adapted by the same step.",
   lqr: "LQR: the DARE gain K of the model linearized about hover, with the quadratic part of the cost as Q and R, tracking a moving setpoint r_t: u = clip(u_hover − K(x − r_t)) to the thrust limits. The setpoint glides from the start position straight to a gate 1 m above the pad at 1.2 m/s, then descends at 0.4 m/s through the roof, and waits whenever the drone lags more than 0.6 m behind (a simple reference governor). Regulating straight to the pad from 8 m away instead saturates the thrust and dives at about 11 m/s. It sees neither the wind nor the descent envelope; it costs one matrix-vector product per step.",
   distilled:
-    "An affine policy u = Kx + b distilled from the MPPI expert by DAgger (Ross, Gordon & Bagnell 2011) on the wind-free model, trained per seed (training episodes end at touchdown; the round with the best validation cost is kept); flying it costs one matrix-vector product per step.",
+    "An affine policy u = Kx + b distilled from the MPPI expert by DAgger (Ross, Gordon & Bagnell 2011) on the wind-free model with a small random state disturbance, trained per seed (the expert labels with 256 samples to keep training short; training episodes end at touchdown; the round with the best validation cost is kept); flying it costs one matrix-vector product per step. Training time is setup time, not in the table.",
 };
 
 /**

@@ -13,7 +13,10 @@
  *   m v̇_z =  (T_l + T_r) cos θ − c_d v_z − m g
  *   J ω̇   =  ℓ (T_r − T_l)
  *
- * integrated with one classical RK4 step per control period (F_gust = 0 in the model).
+ * integrated with one classical RK4 step per control period. The controllers' model is the same
+ * body with F_gust = 0 (it knows nothing of the wind) and with the roof: touchdown is an absorbing
+ * state there, as it ends the episode in the plant, so a planned sequence that lands is scored on
+ * its touchdown (see {@link droneCost}).
  *
  * Gusts (plant only): a steady side wind plus "1 − cos" discrete gusts, the shape used for
  * discrete gusts in flight-dynamics practice (e.g. the discrete gust of US military specification
@@ -207,7 +210,6 @@ export const DRONE_WEIGHTS: {
   touchdownExcess: 200,
   /** Margin ρ: touchdown figures beyond ρ × their threshold are penalized steeply. */
   touchdownMargin: 0.7,
-  ...(process.env.DRONE_W ? JSON.parse(process.env.DRONE_W) : {}),
 });
 /** Hover thrust per rotor, N. */
 export const HOVER_THRUST: number = (DRONE_PARAMETERS.mass * DRONE_PARAMETERS.gravity) / 2;

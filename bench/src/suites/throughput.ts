@@ -443,7 +443,8 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
         `${mc.model} rep ${r + 1}/${reps}: library ${lib[r].toFixed(1)}, JS ceiling ${js[r].toFixed(1)}${native.ok ? `, native ${nat[r].toFixed(1)}` : ""} steps/s`,
       );
     }
-    // Where the time goes in the two hand-written steps (a separate, untimed-for-throughput run).
+    // Where the time goes in the two hand-written steps: a separate run with CPU-clock reads
+    // around each phase (not used for the throughput figures).
     const phaseSteps = ctx.quick ? 3 : 10;
     const phaseNames = ["normals", "mu_plus_sigma_z", "clip", "rollout", "weights_update_shift"];
     const perStep = (v: ArrayLike<number>, scale: number): Record<string, number> =>
@@ -504,7 +505,7 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
         native: nat.map((v) => round(v)),
       },
       phase_ms_per_step: {
-        note: "wall ms per step by phase, from a separate run with clock reads around each phase",
+        note: "CPU ms per step by phase, from a separate run with CPU-clock reads around each phase",
         js_ceiling: ceilingPhases,
         native: nativePhases,
       },
