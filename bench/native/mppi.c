@@ -441,6 +441,7 @@ int main(void) {
     mppi_step(&c, x, u);
     model_step(&c.md, x, u, 1);
   }
+  memset(c.phase_s, 0, sizeof c.phase_s); /* phases of the timed steps only */
   const double t0 = clock_s(CLOCK_MONOTONIC);
   const double c0 = clock_s(CLOCK_PROCESS_CPUTIME_ID);
   for (long s = 0; s < steps; s++) {

@@ -144,6 +144,126 @@ export async function landingChart(
   };
 }
 
+/**
+ * Touchdowns against the success test: one point per seed that landed, miss distance against
+ * touchdown speed, one panel per optimizer, with the success box (miss ≤ threshold, speed ≤
+ * threshold) drawn in; the tilt test is shown by the marker (a cross when only the tilt failed is
+ * still outside the thresholds).
+ */
+export async function touchdownChart(
+  records: readonly RunRecord[],
+  optimizers: readonly string[],
+): Promise<Chart> {
+  const th = DRONE_THRESHOLDS;
+  const rows: Record<string, number | string>[] = [];
+  for (const o of optimizers) {
+    rows.push({ layer: "box", optimizer: o, miss: 0, speed: th.touchdownSpeed, step: 0 });
+    rows.push({
+      layer: "box",
+      optimizer: o,
+      miss: th.missDistance,
+      speed: th.touchdownSpeed,
+      step: 1,
+    });
+    rows.push({ layer: "box", optimizer: o, miss: th.missDistance, speed: 0, step: 2 });
+  }
+  let notLanded = 0;
+  for (const r of records) {
+    if (r.error) continue;
+    if (r.metrics.landed !== 1) {
+      notLanded++;
+      continue;
+    }
+    rows.push({
+      layer: "point",
+      optimizer: r.optimizer,
+      seed: r.seed,
+      miss: r.metrics.missDistance,
+      speed: r.metrics.touchdownSpeed,
+      result: r.success ? "within thresholds" : "outside thresholds",
+    });
+  }
+  const missScale = { domain: [0, 1.2], nice: false, clamp: true };
+  const speedScale = { domain: [0, 1.6], nice: false, clamp: true };
+  const spec = {
+    $schema: "https://vega.github.io/schema/vega-lite/v6.json",
+    title: {
+      text: "Touchdowns against the success test",
+      subtitle: [
+        `one point per seed that landed; dashed box: miss ≤ ${th.missDistance} m and speed ≤ ${th.touchdownSpeed} m/s`,
+        `(tilt ≤ ${Math.round((th.tilt * 180) / Math.PI)}° is also required); values beyond the axes are drawn at the edge`,
+      ],
+    },
+    data: { values: rows },
+    facet: { field: "optimizer", type: "nominal", title: null, sort: [...optimizers] },
+    columns: 3,
+    spec: {
+      width: 220,
+      height: 150,
+      layer: [
+        {
+          transform: [{ filter: "datum.layer === 'box'" }],
+          mark: { type: "line", strokeWidth: 1.5, color: "#2ca02c", strokeDash: [4, 3] },
+          encoding: {
+            x: { field: "miss", type: "quantitative", scale: missScale },
+            y: { field: "speed", type: "quantitative", scale: speedScale },
+            order: { field: "step", type: "quantitative" },
+          },
+        },
+        {
+          transform: [{ filter: "datum.layer === 'point'" }],
+          mark: { type: "point", filled: true, size: 60, strokeWidth: 1, stroke: "white" },
+          encoding: {
+            x: {
+              field: "miss",
+              type: "quantitative",
+              title: "miss distance (m)",
+              scale: missScale,
+            },
+            y: {
+              field: "speed",
+              type: "quantitative",
+              title: "touchdown speed (m/s)",
+              scale: speedScale,
+            },
+            color: {
+              field: "result",
+              type: "nominal",
+              title: "touchdown",
+              scale: {
+                domain: ["within thresholds", "outside thresholds"],
+                range: ["#2ca02c", "#d62728"],
+              },
+            },
+            shape: {
+              field: "result",
+              type: "nominal",
+              title: "touchdown",
+              scale: {
+                domain: ["within thresholds", "outside thresholds"],
+                range: ["circle", "cross"],
+              },
+            },
+            tooltip: [
+              { field: "seed", type: "nominal" },
+              { field: "miss", type: "quantitative", format: ".2f" },
+              { field: "speed", type: "quantitative", format: ".2f" },
+            ],
+          },
+        },
+      ],
+    },
+    resolve: { scale: { x: "shared", y: "shared" } },
+    config: CONFIG,
+  } as TopLevelSpec;
+  return {
+    file: "touchdowns.svg",
+    title: "Touchdowns",
+    caption: `Where each landing fell against the success test: inside the dashed box is within the miss-distance and speed thresholds (the tilt threshold is checked too; a red cross inside the box failed on tilt). ${notLanded === 0 ? "Every run landed." : `${notLanded} run${notLanded === 1 ? "" : "s"} did not land and ${notLanded === 1 ? "is" : "are"} not shown.`}`,
+    svg: await renderSvg(spec),
+  };
+}
+
 /** The side force the gusts exert over time, one line per seed (the same for every optimizer). */
 export async function gustChart(
   series: readonly { seed: number; time: number; force: number }[],

@@ -16,6 +16,7 @@ const inCi = process.env.CI === "true";
 
 const promisedCharts = [
   "landing-trajectories.svg",
+  "touchdowns.svg",
   "gusts.svg",
   "cost-parcel-drone.svg",
   "regret-parcel-drone.svg",

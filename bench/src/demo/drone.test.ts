@@ -74,10 +74,10 @@ describe("parcel drone model with the roof", () => {
       w.touchdown * 0.81 + w.touchdownExcess * (0.9 - w.touchdownMargin) ** 2,
       12,
     );
-    // Terminal cost of a landed state is one more step of the same.
+    // Terminal cost of a landed state: w_H times the same.
     const out = new Float64Array(1);
     droneCost.terminal(Float64Array.from(hard), 0, 1, out, 0);
-    expect(out[0]).toBeCloseTo(cost(hard), 12);
+    expect(out[0]).toBeCloseTo(w.terminal * cost(hard), 12);
   });
 });
 

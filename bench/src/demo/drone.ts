@@ -262,11 +262,12 @@ function landedCost(x: Float64Array, b: number): number {
  *           + w_c max(0, |p_x| − c₀ − c₁ p_z)² + w_b max(0, |θ| − θ_b)² + w_a;
  * landed (p_z ≤ 0, the model's absorbing touchdown state), it is ℓ(x) of the touchdown figures
  * (see `landedCost`), and the controls no longer matter. Terminal: c_H(x) = w_H q(x) in the air,
- * ℓ(x) once landed. The envelope asks for a descent that slows near the roof, the cone for being
+ * w_H ℓ(x) once landed (so a plant episode, which ends at touchdown, pays w_H ℓ for how it
+ * touched down, and a hard or off-pad landing shows in the episode cost). The envelope asks for a descent that slows near the roof, the cone for being
  * over the pad before getting low, the bank term keeps the tilt well below the 30° limit, w_a prices
  * time in the air, and ℓ scores the touchdown itself (speed, miss distance, tilt) against the
  * success thresholds. The episode cost of a run is this cost along the plant's path, ending with
- * ℓ of the touchdown state.
+ * w_H ℓ of the touchdown state.
  */
 export const droneCost: CostModel = {
   stateSize: N,
@@ -300,7 +301,7 @@ export const droneCost: CostModel = {
   terminal(x, xo, count, out, oo): void {
     for (let k = 0; k < count; k++) {
       const b = xo + k * N;
-      out[oo + k] += x[b + 1] <= 0 ? landedCost(x, b) : DRONE_WEIGHTS.terminal * stateCost(x, b);
+      out[oo + k] += DRONE_WEIGHTS.terminal * (x[b + 1] <= 0 ? landedCost(x, b) : stateCost(x, b));
     }
   },
 };

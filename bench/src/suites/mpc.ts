@@ -25,6 +25,7 @@
 import { PerformanceObserver } from "node:perf_hooks";
 import { setFlagsFromString } from "node:v8";
 import { runInNewContext } from "node:vm";
+import { batchDynamics, type Dynamics, type PointDynamics } from "@recede/core";
 import { type Controller, cem, mppi } from "@recede/mpc";
 import { bicycle, cartPole, type Problem } from "@recede/problems";
 import type { Suite, SuiteContext, SuiteOutput } from "../suite.js";
@@ -47,10 +48,10 @@ function noiseOf(p: Problem): number[] {
   return out;
 }
 
-function build(p: Problem, c: Case, timing = true): Controller {
+function build(p: Problem, c: Case, timing = false, dynamics: Dynamics = p.dynamics): Controller {
   const common = {
     timing,
-    dynamics: p.dynamics,
+    dynamics,
     cost: p.cost,
     horizon: HORIZON,
     samples: c.samples,
@@ -158,6 +159,85 @@ async function measureAllocation(
   };
 }
 
+/**
+ * The per-sample adapter `batchDynamics` of @recede/core against the problem's batched model:
+ * the same model equations, written once as a per-sample function (next(x, u, t, out) advancing one
+ * state with the batched step at count 1) and wrapped by the adapter. Dynamics alone
+ * (ns per sample-step, median of repetitions, K = 2000 states, process CPU time) and the whole
+ * mppi step (K = 2000, H = 50, steps/s).
+ */
+function adapterCost(
+  problems: Record<string, Problem>,
+  quick: boolean,
+  ctx: SuiteContext,
+): Record<string, number | string>[] {
+  const out: Record<string, number | string>[] = [];
+  const k = 2000;
+  for (const [name, p] of Object.entries(problems)) {
+    const n = p.stateSize;
+    const m = p.controlSize;
+    const point: PointDynamics = {
+      stateSize: n,
+      controlSize: m,
+      next(x, u, t, o): void {
+        for (let i = 0; i < n; i++) o[i] = x[i];
+        p.dynamics.step(o, 0, u, 0, 1, t);
+      },
+    };
+    const adapted = batchDynamics(point);
+    const x = new Float64Array(k * n);
+    const u = new Float64Array(k * m);
+    for (let i = 0; i < k; i++) x.set(p.initialState(), i * n);
+    for (let i = 0; i < u.length; i++) u[i] = 0.1 * Math.sin(i);
+    const nsPer = (d: Dynamics): number => {
+      const reps: number[] = [];
+      const calls = quick ? 20 : 100;
+      for (let r = 0; r < (quick ? 3 : 7); r++) {
+        for (let i = 0; i < k; i++) x.set(p.initialState(), i * n);
+        const c0 = process.cpuUsage();
+        for (let c = 0; c < calls; c++) d.step(x, 0, u, 0, k, c);
+        const c1 = process.cpuUsage(c0);
+        reps.push(((c1.user + c1.system) * 1000) / (calls * k));
+      }
+      return median(reps);
+    };
+    nsPer(p.dynamics);
+    nsPer(adapted);
+    const batched = nsPer(p.dynamics);
+    const perSample = nsPer(adapted);
+    const rate = (d: Dynamics): number => {
+      const c: Case = { problem: name, optimizer: "mppi", samples: k };
+      const ctrl = build(p, c, false, d);
+      const xs = p.initialState();
+      closedLoopSteps(ctrl, p, xs, 3, 0);
+      const steps = quick ? 4 : 12;
+      const c0 = process.cpuUsage();
+      closedLoopSteps(ctrl, p, xs, steps, 3);
+      const c1 = process.cpuUsage(c0);
+      return steps / ((c1.user + c1.system) / 1e6);
+    };
+    const rb: number[] = [];
+    const ra: number[] = [];
+    for (let r = 0; r < (quick ? 1 : 3); r++) {
+      rb.push(rate(p.dynamics));
+      ra.push(rate(adapted));
+    }
+    ctx.log(
+      `mpc: adapter ${name}: ${batched.toFixed(1)} vs ${perSample.toFixed(1)} ns/sample-step`,
+    );
+    out.push({
+      problem: name,
+      batchedNsPerSampleStep: Number(batched.toFixed(2)),
+      adapterNsPerSampleStep: Number(perSample.toFixed(2)),
+      adapterOverBatched: Number((perSample / batched).toFixed(3)),
+      batchedStepsPerSecond: Number(median(rb).toFixed(2)),
+      adapterStepsPerSecond: Number(median(ra).toFixed(2)),
+      timeBase: "process CPU time",
+    });
+  }
+  return out;
+}
+
 /** The suite. */
 export const suite: Suite = {
   name: "mpc",
@@ -195,8 +275,8 @@ export const suite: Suite = {
       ctx.log(
         `mpc: ${c.optimizer} ${c.problem} K=${c.samples}: ${stepsPerSecond.toFixed(1)} steps/s`,
       );
-      // Allocation with the step timer off (timing: false): the two performance.now() reads of the
-      // report's wallTimeMs box a double each on Node 20 (measured separately as `withTiming`).
+      // Allocation with the default timing: false; the two performance.now() reads of the report's
+      // wallTimeMs (timing: true) allocate 16 B each on Node 20 (measured separately as `withTiming`).
       const windowSteps = Math.max(20, Math.round((quick ? 2e6 : 1e7) / c.samples / HORIZON));
       const alloc = await measureAllocation(
         build(p, c, false),
@@ -230,8 +310,15 @@ export const suite: Suite = {
           `${alloc.gcEventsDuringLongRun} GCs in ${alloc.longRunSteps} steps`,
       );
     }
+    const adapter = adapterCost(problems, quick, ctx);
+    for (const a of adapter) {
+      lines.push(
+        `${a.problem} dynamics: batched ${a.batchedNsPerSampleStep} ns/sample-step, per-sample adapter (batchDynamics) ${a.adapterNsPerSampleStep} ns (×${a.adapterOverBatched}); mppi K=2000 H=50: ${a.batchedStepsPerSecond} vs ${a.adapterStepsPerSecond} steps/s`,
+      );
+    }
     return {
       result: {
+        adapter,
         horizon: HORIZON,
         seed: SEED,
         quick,
@@ -239,7 +326,7 @@ export const suite: Suite = {
           timing:
             "closed loop on the model: warm-up steps, then timed steps; median over repetitions of steps / wall time",
           allocation:
-            "controllers built with timing: false; (1) heapUsed growth over three consecutive windows of N control steps after warm-up, each after a forced full GC (needs --expose-gc), divided by N; bytesPerStep = the smallest window (the first may hold one-time JIT allocations); (2) count of GC events (PerformanceObserver 'gc') during a long run; allocationWithTiming repeats (1) with the default timing: true",
+            "controllers built with the default timing: false; (1) heapUsed growth over three consecutive windows of N control steps after warm-up, each after a forced full GC (needs --expose-gc), divided by N; bytesPerStep = the smallest window (the first may hold one-time JIT allocations); (2) count of GC events (PerformanceObserver 'gc') during a long run; allocationWithTiming repeats (1) with timing: true (two performance.now() reads per step)",
           fullGcAvailable: fullGc() !== undefined,
           node: process.version,
         },

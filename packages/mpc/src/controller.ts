@@ -503,8 +503,6 @@ class GenericController implements Controller {
   private readonly slices: number;
   private readonly actName: string;
   private readonly exec: SliceExecutor | null;
-  /** Scratch doubles kept unboxed (see `weigh`). */
-  private readonly scalars: Float64Array = new Float64Array(1);
 
   constructor(
     readonly name: string,
@@ -705,9 +703,7 @@ class GenericController implements Controller {
     rep.failedSamples += failures;
     const costs = rollout.costs;
     const w = this.weights;
-    if (failures < k) this.weigh(costs, k, w);
-    else this.scalars[0] = Number.NaN;
-    const value = this.scalars[0];
+    const value = failures < k ? loss.weigh(costs, k, w) : Number.NaN;
     // Weight summaries (and a guard against a loss that produced unusable weights).
     let abs = 0;
     let sq = 0;
@@ -716,8 +712,14 @@ class GenericController implements Controller {
       abs += wi < 0 ? -wi : wi;
       sq += wi * wi;
     }
+    // value === value and abs − abs === 0 are the NaN and finiteness tests without a call (a
+    // double passed to a call V8 does not inline is boxed; measured by the alloc benchmark).
     const usable =
-      failures < k && !Number.isNaN(value) && Number.isFinite(abs) && (abs > 0 || !loss.normalized);
+      failures < k &&
+      // biome-ignore lint/suspicious/noSelfCompare: the allocation-free NaN test (see above).
+      value === value &&
+      abs - abs === 0 &&
+      (abs > 0 || !loss.normalized);
     if (first) {
       let min = Number.POSITIVE_INFINITY;
       let sum = 0;
@@ -745,14 +747,6 @@ class GenericController implements Controller {
     }
     dist.update(buf, k, w, loss.normalized, gamma);
     if (dist.meanIsParameter) this.clipMean();
-  }
-
-  /**
-   * scalars[0] ← loss.weigh(…). A double returned across a call V8 does not inline is boxed on
-   * the heap; this small method (into which `weigh` is inlined) keeps it in a Float64Array.
-   */
-  private weigh(costs: Float64Array, k: number, w: Float64Array): void {
-    this.scalars[0] = this.loss!.weigh(costs, k, w);
   }
 
   private objectiveStep(x: Float64Array, it: number): void {

@@ -75,6 +75,73 @@ describe("createRollout", () => {
     expect(bitEqual(first, eng.costs)).toBe(true);
   });
 
+  it("fails a sample whose state is non-finite at an inner step even if it turns finite again", () => {
+    // x⁺ = +∞ when u > 5, and a non-finite x maps back to 0: only the per-step check sees it.
+    const laundering: Dynamics = {
+      stateSize: 1,
+      controlSize: 1,
+      step(x, xo, u, uo, count) {
+        for (let i = 0; i < count; i++) {
+          const v = x[xo + i];
+          x[xo + i] =
+            u[uo + i] > 5 ? Number.POSITIVE_INFINITY : Number.isFinite(v) ? v + u[uo + i] : 0;
+        }
+      },
+    };
+    const cost = {
+      stateSize: 1,
+      controlSize: 1,
+      running(
+        _x: Float64Array,
+        _xo: number,
+        u: Float64Array,
+        uo: number,
+        n: number,
+        _t: number,
+        out: Float64Array,
+        oo: number,
+      ) {
+        for (let i = 0; i < n; i++) out[oo + i] += u[uo + i] * u[uo + i];
+      },
+      terminal() {},
+    };
+    const eng = createRollout({ dynamics: laundering, cost, samples: 3, horizon: 2 });
+    const u = Float64Array.from([1, 1, 9, 1, 0, 2]);
+    expect(eng.run(Float64Array.of(0), u, 0, 3)).toBe(1);
+    expect(Array.from(eng.failed)).toEqual([0, 1, 0]);
+    expect(eng.costs[0]).toBe(2);
+    expect(eng.costs[2]).toBe(4);
+  });
+
+  it("clips every component to its bounds, in place, only within the slice", () => {
+    const cost = linearQuadraticCost({
+      stateSize: 1,
+      controlSize: 2,
+      q: [[1]],
+      r: [
+        [1, 0],
+        [0, 1],
+      ],
+    });
+    const dyn: Dynamics = { stateSize: 1, controlSize: 2, step() {} };
+    const eng = createRollout({
+      dynamics: dyn,
+      cost,
+      samples: 3,
+      horizon: 1,
+      lower: Float64Array.of(-1, 0),
+      upper: Float64Array.of(1, 2),
+    });
+    const u = Float64Array.from([-5, 5, 0.5, -0.5, Number.NaN, 7]);
+    eng.clip(u, 0, 2);
+    expect(Array.from(u.subarray(0, 4))).toEqual([-1, 2, 0.5, 0]);
+    expect(Number.isNaN(u[4])).toBe(true); // outside the slice: untouched
+    expect(u[5]).toBe(7);
+    eng.clip(u, 2, 1);
+    expect(Number.isNaN(u[4])).toBe(true); // NaN stays NaN (the rollout then fails the sample)
+    expect(u[5]).toBe(2);
+  });
+
   it("validates sizes with typed errors", () => {
     catchRecedeError(
       () => createRollout({ dynamics: cp.dynamics, cost: cp.cost, samples: 0, horizon: 3 }),

@@ -194,11 +194,20 @@ class RolloutEngine implements Rollout {
     if (m === 1) {
       const l = lo[0];
       const u = hi[0];
-      for (let p = start; p < end; p++) samples[p] = Math.min(Math.max(samples[p], l), u);
+      for (let p = start; p < end; p++) {
+        const v = samples[p];
+        // Compare-and-select (as the C reference does); NaN stays NaN as with Math.min/max.
+        if (v < l) samples[p] = l;
+        else if (v > u) samples[p] = u;
+      }
       return;
     }
     for (let p = start; p < end; p += m) {
-      for (let j = 0; j < m; j++) samples[p + j] = Math.min(Math.max(samples[p + j], lo[j]), hi[j]);
+      for (let j = 0; j < m; j++) {
+        const v = samples[p + j];
+        if (v < lo[j]) samples[p + j] = lo[j];
+        else if (v > hi[j]) samples[p + j] = hi[j];
+      }
     }
   }
 
@@ -229,6 +238,26 @@ class RolloutEngine implements Rollout {
 
   private runBatch(x0: Float64Array, samples: Float64Array, first: number, count: number): void {
     const n = this.stateSize;
+    const x = this.states;
+    const costs = this.costs;
+    const failed = this.failed;
+    const cost = this.cost;
+    const xo = first * n;
+    for (let k = first; k < first + count; k++) {
+      costs[k] = 0;
+      failed[k] = 0;
+      const b = k * n;
+      for (let i = 0; i < n; i++) x[b + i] = x0[i];
+    }
+    // The horizon loop is its own method: compiled on its own, it leaves this method with type
+    // feedback for the terminal call (an on-stack-replaced loop here deoptimized at that call at
+    // the end of every run).
+    this.horizonSteps(samples, first, count);
+    cost.terminal(x, xo, count, costs, first);
+  }
+
+  private horizonSteps(samples: Float64Array, first: number, count: number): void {
+    const n = this.stateSize;
     const m = this.controlSize;
     const h = this.horizon;
     const x = this.states;
@@ -240,12 +269,6 @@ class RolloutEngine implements Rollout {
     const xo = first * n;
     const uo = first * m;
     const hm = h * m;
-    for (let k = first; k < first + count; k++) {
-      costs[k] = 0;
-      failed[k] = 0;
-      const b = k * n;
-      for (let i = 0; i < n; i++) x[b + i] = x0[i];
-    }
     for (let t = 0; t < h; t++) {
       // Gather u_{k,t} for the slice into contiguous rows.
       for (let k = first; k < first + count; k++) {
@@ -255,15 +278,19 @@ class RolloutEngine implements Rollout {
       }
       cost.running(x, xo, u, uo, count, t, costs, first);
       dyn.step(x, xo, u, uo, count, t);
-      // Mark samples whose state became non-finite (x·0 is NaN exactly for non-finite x).
-      for (let k = first; k < first + count; k++) {
-        const b = k * n;
-        let z = 0;
-        for (let i = 0; i < n; i++) z += x[b + i] * 0;
-        if (z !== 0) failed[k] = 1;
+      // Mark samples whose state became non-finite (x·0 is NaN exactly for non-finite x): one
+      // flat pass over the slice's states, and a per-sample pass only when it finds something.
+      let z = 0;
+      for (let i = xo; i < xo + count * n; i++) z += x[i] * 0;
+      if (z !== 0) {
+        for (let k = first; k < first + count; k++) {
+          const b = k * n;
+          let zk = 0;
+          for (let i = 0; i < n; i++) zk += x[b + i] * 0;
+          if (zk !== 0) failed[k] = 1;
+        }
       }
     }
-    cost.terminal(x, xo, count, costs, first);
   }
 }
 

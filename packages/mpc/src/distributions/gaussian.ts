@@ -157,6 +157,8 @@ class GaussianPlan implements PlanDistribution {
   private readonly minVar: Float64Array;
   private readonly innovation: number;
   private samplerRecord: GaussianSampler | undefined = undefined;
+  /** [Σw] of the last update (kept unboxed). */
+  private readonly sums: Float64Array = new Float64Array(1);
 
   constructor(
     readonly horizon: number,
@@ -229,30 +231,18 @@ class GaussianPlan implements PlanDistribution {
     normalized: boolean,
     gamma: number,
   ): void {
+    // The long loops live in module functions: compiled on their own, they leave this driver
+    // with type feedback for every statement (an on-stack-replaced loop here used to leave the
+    // code after it without feedback, and the method deoptimized at the end of every call).
     const len = this.len;
     const tm = this.targetMean;
     const tv = this.targetVar;
-    for (let p = 0; p < len; p++) tm[p] = 0;
-    let wsum = 0;
-    for (let k = 0; k < count; k++) {
-      const w = weights[k];
-      if (w === 0) continue;
-      wsum += w;
-      const base = k * len;
-      for (let p = 0; p < len; p++) tm[p] += w * samples[base + p];
-    }
+    const sums = this.sums;
+    weightedSum(samples, count, weights, len, tm, sums);
+    const wsum = sums[0];
     if (normalized) {
       if (this.adapt) {
-        for (let p = 0; p < len; p++) tv[p] = 0;
-        for (let k = 0; k < count; k++) {
-          const w = weights[k];
-          if (w === 0) continue;
-          const base = k * len;
-          for (let p = 0; p < len; p++) {
-            const d = samples[base + p] - tm[p];
-            tv[p] += w * d * d;
-          }
-        }
+        weightedSpread(samples, count, weights, len, tm, tv);
         gaussianDiagonalStep(len, gamma, this.mean, 0, this.variance, 0, tm, 0, tv, 0);
       } else {
         gaussianDiagonalStep(len, gamma, this.mean, 0, null, 0, tm, 0, null, 0);
@@ -261,18 +251,7 @@ class GaussianPlan implements PlanDistribution {
       // Signed weights: m⁺ = m + γ(Σ v φ − (Σ v) m) in expectation parameters (μ, σ² + μ²).
       const mean = this.mean;
       const variance = this.variance;
-      if (this.adapt) {
-        for (let p = 0; p < len; p++) tv[p] = 0;
-        for (let k = 0; k < count; k++) {
-          const w = weights[k];
-          if (w === 0) continue;
-          const base = k * len;
-          for (let p = 0; p < len; p++) {
-            const u = samples[base + p];
-            tv[p] += w * u * u;
-          }
-        }
-      }
+      if (this.adapt) weightedSecondMoment(samples, count, weights, len, tv);
       for (let p = 0; p < len; p++) {
         const mu = mean[p];
         const mu1 = mu + gamma * (tm[p] - wsum * mu);
@@ -354,6 +333,68 @@ export function sampleGaussianRows(
       for (let p = 0; p < len; p++) out[base + p] = mean[p];
     } else {
       for (let p = 0; p < len; p++) out[base + p] = mean[p] + std[p] * out[base + p];
+    }
+  }
+}
+
+/** tm ← Σ_k w_k U_k over the samples with w_k ≠ 0; sums[0] ← Σ_k w_k. */
+function weightedSum(
+  samples: Float64Array,
+  count: number,
+  weights: Float64Array,
+  len: number,
+  tm: Float64Array,
+  sums: Float64Array,
+): void {
+  for (let p = 0; p < len; p++) tm[p] = 0;
+  let wsum = 0;
+  for (let k = 0; k < count; k++) {
+    const w = weights[k];
+    if (w === 0) continue;
+    wsum += w;
+    const base = k * len;
+    for (let p = 0; p < len; p++) tm[p] += w * samples[base + p];
+  }
+  sums[0] = wsum;
+}
+
+/** tv ← Σ_k w_k (U_k − tm)² over the samples with w_k ≠ 0. */
+function weightedSpread(
+  samples: Float64Array,
+  count: number,
+  weights: Float64Array,
+  len: number,
+  tm: Float64Array,
+  tv: Float64Array,
+): void {
+  for (let p = 0; p < len; p++) tv[p] = 0;
+  for (let k = 0; k < count; k++) {
+    const w = weights[k];
+    if (w === 0) continue;
+    const base = k * len;
+    for (let p = 0; p < len; p++) {
+      const d = samples[base + p] - tm[p];
+      tv[p] += w * d * d;
+    }
+  }
+}
+
+/** tv ← Σ_k w_k U_k² over the samples with w_k ≠ 0. */
+function weightedSecondMoment(
+  samples: Float64Array,
+  count: number,
+  weights: Float64Array,
+  len: number,
+  tv: Float64Array,
+): void {
+  for (let p = 0; p < len; p++) tv[p] = 0;
+  for (let k = 0; k < count; k++) {
+    const w = weights[k];
+    if (w === 0) continue;
+    const base = k * len;
+    for (let p = 0; p < len; p++) {
+      const u = samples[base + p];
+      tv[p] += w * u * u;
     }
   }
 }

@@ -37,11 +37,14 @@ import {
 import { buildModel, type ModelRecipe } from "./recipe.js";
 
 /**
- * Default of {@link RolloutWorkersOptions.minWork}: below K·H = 12 000 sample-steps per control
- * step the hand-off to a worker costs more than it saves on the benchmark machine (measured by
- * `pnpm bench parallel`, field `switchOver`; see docs/guides/real-time.md).
+ * Default of {@link RolloutWorkersOptions.minWork}, an estimate: one sample-step of the reference
+ * models costs 100–300 ns in the whole MPPI step and a hand-off round trip through the control
+ * block about 4 µs (up to ~100 µs when the worker must be woken on a loaded machine), so from
+ * K·H ≈ 4096 (≈ 0.3 ms saved by the second thread) the workers should win. `pnpm bench parallel`
+ * measures the switch-over (field `switch_over`); on the shared benchmark machine no second core
+ * was free when it ran, so measure on your own machine and set `minWork` from it.
  */
-export const DEFAULT_MIN_WORK = 12_000;
+export const DEFAULT_MIN_WORK = 4096;
 
 /** Options of {@link startRolloutWorkers}. */
 export interface RolloutWorkersOptions {
@@ -57,7 +60,7 @@ export interface RolloutWorkersOptions {
    * Smallest amount of work K·H (samples × horizon) for which a controller uses the workers;
    * smaller controllers run entirely on the main thread, where the hand-off would cost more than
    * it saves.
-   * @defaultValue 12000 (the switch-over measured by `pnpm bench parallel`)
+   * @defaultValue 4096 (an estimate; `pnpm bench parallel` measures the switch-over)
    */
   readonly minWork?: number;
   /**
