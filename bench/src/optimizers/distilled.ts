@@ -5,8 +5,10 @@
  * Training (per run, seeded by the run's seed, counted in the run's setup time, not in its
  * per-step compute time): episodes on the controller's *model* (the plant's disturbances are not
  * available to training), from the problem's initial-state law, with an optional Gaussian state
- * disturbance; `rounds` DAgger rounds of `episodesPerRound` episodes, β₁ = 1 then 0, the expert
- * labelling every visited state; the policy of the round with the lowest validation cost is kept.
+ * disturbance, each ending where the problem ends the plant's (`finished`, e.g. touchdown);
+ * `rounds` DAgger rounds of `episodesPerRound` episodes, β₁ = 1 then 0, the expert labelling every
+ * visited state; the policy of the round with the lowest validation cost is kept. `expertSamples`
+ * labels with a copy of the expert that draws fewer samples, to keep training short.
  *
  * Source: S. Ross, G. J. Gordon, J. A. Bagnell, "A Reduction of Imitation Learning and Structured
  * Prediction to No-Regret Online Learning", AISTATS 2011.

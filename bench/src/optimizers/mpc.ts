@@ -6,7 +6,11 @@
  *   size γ, covariance adaptation, iterations, noise correlation, shift fill): how a user derives
  *   and benchmarks a new variant without code;
  * - `lqr` — the infinite-horizon LQR gain from the discrete algebraic Riccati equation about the
- *   problem's equilibrium, u = ū − K (x − x̄) (needs the problem's linear-quadratic data).
+ *   problem's equilibrium, u = ū − K (x − x̄) (needs the problem's linear-quadratic data), or, with
+ *   `track`, the same gain tracking the problem's moving setpoint r_t: u = ū − K (x − r_t).
+ *
+ * Sampling kinds accept `warmup`: control steps run at setup and then undone by `reset()`, so the
+ * measured compute time per step is the steady state's.
  *
  * The Gaussian plan starts at the problem's equilibrium control (hover thrust for the drone), so
  * every sampling controller starts from "hold still" rather than from zero thrust.
