@@ -323,7 +323,7 @@ export async function computeChart(
     file: `compute-${problem}.svg`,
     title: `Compute time per step — ${problem}`,
     caption:
-      "Wall time of one call that chooses a control (sampling, rollouts and update for MPC; a forward pass for a policy), measured on this machine while other runs shared its cores. Every step counts, including the first ones while the JavaScript engine compiles the hot loops, which weigh on the 95th percentile.",
+      "Wall time of one call that chooses a control (sampling, rollouts and update for MPC; a forward pass for a policy), measured on this machine while other runs shared its cores. Controllers given a warm-up are compiled at setup (a few control steps, then reset), so their median and 95th percentile cover steady-state steps; for the others every step counts, including the first ones while the JavaScript engine compiles the hot loops.",
     svg: await renderSvg(spec),
   };
 }

@@ -17,14 +17,17 @@ export {
   trackedRegretChart,
 } from "./charts.js";
 export { mergeResults } from "./cli.js";
+export { touchdownChart } from "./demo/charts.js";
 export { type DemoFiles, type DemoOptions, demoSweep, runDemo } from "./demo/demo.js";
 export {
   DRONE_PARAMETERS,
   DRONE_THRESHOLDS,
   DRONE_WEIGHTS,
   droneCost,
+  droneGlidePath,
   droneLinearQuadratic,
   droneModel,
+  type GlidePathSettings,
   HOVER_THRUST,
   parcelDrone,
 } from "./demo/drone.js";
@@ -33,6 +36,8 @@ export {
   cemDefinition,
   lqrDefinition,
   mppiDefinition,
+  type TrackingReference,
+  type TrackingReferenceSource,
   variantDefinition,
   wrapController,
 } from "./optimizers/mpc.js";
