@@ -33,7 +33,9 @@ function phaseOf(fn: string, url: string): string {
   if (fn === "fillNormal" || fn === "normalSlow" || fn === "next32" || fn === "auxOpen01") {
     return "sampling: normals (core rng)";
   }
-  if (file === "gaussian.js" && fn === "sample") return "sampling: μ + σ·z (plan.sample)";
+  if (file === "gaussian.js" && (fn === "sample" || fn === "sampleGaussianRows")) {
+    return "sampling: μ + σ·z (plan.sample)";
+  }
   if (fn === "clip") return "clipping";
   if (file === "bicycle.js" || file === "cartPole.js") {
     return fn === "step" || fn === "accel" ? "rollout: dynamics" : "rollout: other (problem)";
@@ -48,8 +50,11 @@ function phaseOf(fn: string, url: string): string {
     return "rollout: costs";
   }
   if (file === "rollout.js") return "rollout: engine (gather, checks)";
-  if (fn === "weigh" || fn === "expWeights" || fn === "logSumExp") return "weights";
-  if (fn === "update" || fn === "gaussianDiagonalStep") return "mean update";
+  if (fn === "weigh" || fn === "weighInto" || fn === "expWeights" || fn === "logSumExp") {
+    return "weights";
+  }
+  if (fn === "update" || fn === "weightedSum" || fn === "gaussianDiagonalStep")
+    return "mean update";
   if (fn === "apply" || fn === "sync") return "shift";
   if (file === "controller.js") return "controller (act, report, bookkeeping)";
   if (fn === "(garbage collector)") return "garbage collector";

@@ -503,6 +503,8 @@ class GenericController implements Controller {
   private readonly slices: number;
   private readonly actName: string;
   private readonly exec: SliceExecutor | null;
+  /** [ℓ̂] of the current iteration, kept unboxed (see SampleLoss.weighInto). */
+  private readonly estimate: Float64Array = new Float64Array(1);
 
   constructor(
     readonly name: string,
@@ -703,7 +705,11 @@ class GenericController implements Controller {
     rep.failedSamples += failures;
     const costs = rollout.costs;
     const w = this.weights;
-    const value = failures < k ? loss.weigh(costs, k, w) : Number.NaN;
+    const est = this.estimate;
+    if (failures === k) est[0] = Number.NaN;
+    else if (loss.weighInto !== undefined) loss.weighInto(costs, k, w, est);
+    else est[0] = loss.weigh(costs, k, w);
+    const value = est[0];
     // Weight summaries (and a guard against a loss that produced unusable weights).
     let abs = 0;
     let sq = 0;

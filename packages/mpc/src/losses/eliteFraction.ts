@@ -47,12 +47,19 @@ export function eliteCount(fraction: number, count: number): number {
 }
 
 class EliteFraction implements SampleLoss {
+  /** Scratch for {@link SampleLoss.weigh} (which returns what `weighInto` writes). */
+  private readonly one: Float64Array = new Float64Array(1);
   readonly name = "elite-fraction";
   readonly normalized = true;
   private index = new Int32Array(0);
   constructor(readonly fraction: number) {}
 
   weigh(costs: Float64Array, count: number, weights: Float64Array): number {
+    this.weighInto(costs, count, weights, this.one);
+    return this.one[0];
+  }
+
+  weighInto(costs: Float64Array, count: number, weights: Float64Array, out: Float64Array): void {
     if (this.index.length < count) this.index = new Int32Array(count);
     const idx = this.index;
     let valid = 0;
@@ -60,7 +67,10 @@ class EliteFraction implements SampleLoss {
       idx[i] = i;
       if (Number.isFinite(costs[i])) valid++;
     }
-    if (valid === 0) return Number.NaN;
+    if (valid === 0) {
+      out[0] = Number.NaN;
+      return;
+    }
     const ke = Math.min(valid, eliteCount(this.fraction, count));
     if (ke < count) select(costs, idx, count, ke);
     for (let i = 0; i < count; i++) weights[i] = 0;
@@ -70,7 +80,7 @@ class EliteFraction implements SampleLoss {
       weights[idx[e]] = w;
       s += costs[idx[e]];
     }
-    return s / ke;
+    out[0] = s / ke;
   }
 }
 

@@ -48,12 +48,19 @@ export function expectedCost(options: ExpectedCostOptions = {}): SampleLoss {
 }
 
 class ExpectedCost implements SampleLoss {
+  /** Scratch for {@link SampleLoss.weigh} (which returns what `weighInto` writes). */
+  private readonly one: Float64Array = new Float64Array(1);
   readonly name = "expected-cost";
   readonly normalized = false;
   /** 0 means "use the sample standard deviation". */
   constructor(private readonly scale: number) {}
 
   weigh(costs: Float64Array, count: number, weights: Float64Array): number {
+    this.weighInto(costs, count, weights, this.one);
+    return this.one[0];
+  }
+
+  weighInto(costs: Float64Array, count: number, weights: Float64Array, out: Float64Array): void {
     let valid = 0;
     let sum = 0;
     for (let i = 0; i < count; i++) {
@@ -63,7 +70,10 @@ class ExpectedCost implements SampleLoss {
         sum += c;
       }
     }
-    if (valid === 0) return Number.NaN;
+    if (valid === 0) {
+      out[0] = Number.NaN;
+      return;
+    }
     const b = sum / valid;
     let s = this.scale;
     if (s === 0) {
@@ -79,6 +89,6 @@ class ExpectedCost implements SampleLoss {
       const c = costs[i];
       weights[i] = Number.isFinite(c) ? f * (c - b) : 0;
     }
-    return b;
+    out[0] = b;
   }
 }

@@ -44,12 +44,19 @@ export function exponentialUtility(options: ExponentialUtilityOptions): SampleLo
 }
 
 class ExponentialUtility implements SampleLoss {
+  /** Scratch for {@link SampleLoss.weigh} (which returns what `weighInto` writes). */
+  private readonly one: Float64Array = new Float64Array(1);
   readonly name = "exponential-utility";
   readonly normalized = true;
   private scores = new Float64Array(0);
   constructor(readonly temperature: number) {}
 
   weigh(costs: Float64Array, count: number, weights: Float64Array): number {
+    this.weighInto(costs, count, weights, this.one);
+    return this.one[0];
+  }
+
+  weighInto(costs: Float64Array, count: number, weights: Float64Array, out: Float64Array): void {
     if (this.scores.length < count) this.scores = new Float64Array(count);
     const a = this.scores;
     let rho = Number.POSITIVE_INFINITY;
@@ -57,7 +64,10 @@ class ExponentialUtility implements SampleLoss {
       const c = costs[i];
       if (c < rho) rho = c; // NaN never compares less
     }
-    if (!Number.isFinite(rho)) return Number.NaN;
+    if (!Number.isFinite(rho)) {
+      out[0] = Number.NaN;
+      return;
+    }
     const inv = 1 / this.temperature;
     for (let i = 0; i < count; i++) {
       const c = costs[i];
@@ -65,6 +75,6 @@ class ExponentialUtility implements SampleLoss {
       a[i] = Number.isFinite(c) ? -(c - rho) * inv : Number.NEGATIVE_INFINITY;
     }
     const lse = kernels.expWeights(count, a, 0, weights, 0);
-    return rho - this.temperature * (lse - Math.log(count));
+    out[0] = rho - this.temperature * (lse - Math.log(count));
   }
 }

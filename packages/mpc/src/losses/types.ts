@@ -24,4 +24,10 @@ export interface SampleLoss {
    * the loss at the current plan. Returns NaN (weights unspecified) when no sample is usable.
    */
   weigh(costs: Float64Array, count: number, weights: Float64Array): number;
+  /**
+   * Optional: the same as {@link SampleLoss.weigh}, but writes the estimate to `out[0]`. The
+   * controller prefers it: a double returned from a call V8 does not inline is allocated on the
+   * heap (16 bytes per control step, measured), a double written to a Float64Array is not.
+   */
+  weighInto?(costs: Float64Array, count: number, weights: Float64Array, out: Float64Array): void;
 }

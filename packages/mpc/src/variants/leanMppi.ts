@@ -101,8 +101,10 @@ export function leanMppi(options: LeanMppiOptions): Controller {
   if (minStd === undefined) {
     let smallest = Number.POSITIVE_INFINITY;
     if (typeof noise === "number") smallest = noise;
-    else if (noise instanceof Float64Array || Array.isArray(noise))
-      for (const s of noise as ArrayLike<number>) if (s < smallest) smallest = s;
+    else if (noise instanceof Float64Array || Array.isArray(noise)) {
+      const a = noise as ArrayLike<number>;
+      for (let i = 0; i < a.length; i++) if (a[i] < smallest) smallest = a[i];
+    }
     if (!(smallest > 0 && Number.isFinite(smallest))) {
       throw new RecedeError("range", FN, "noise", "finite and > 0", noise);
     }

@@ -250,6 +250,10 @@ class QuadraticCostImpl implements QuadraticCost {
     if (this.qDiag && this.rDiag) {
       // fast path: diagonal weights, no scratch
       const { qd, rd, ref, uref, isAngle, hasAngle } = this;
+      if (n === 4) {
+        this.running4(x, xo, u, uo, count, rb, ub, out, oo);
+        return;
+      }
       for (let k = 0; k < count; k++) {
         const xb = xo + k * n;
         const ubk = uo + k * m;
@@ -271,6 +275,60 @@ class QuadraticCostImpl implements QuadraticCost {
       const c =
         this.form(n, this.q, this.qDiag, x, xo + k * n, this.ref, rb, this.dx, this.hasAngle) +
         this.form(m, this.r, this.rDiag, u, uo + k * m, this.uref, ub, this.du, false);
+      out[oo + k] += c;
+    }
+  }
+
+  /**
+   * The diagonal fast path unrolled for n = 4 (the planar reference problems): the same terms in
+   * the same order as the general loop, so the sums are bit-identical; about 10 % of an MPPI step
+   * on the bicycle was this loop's per-component overhead (measured by the throughput profile).
+   */
+  private running4(
+    x: Float64Array,
+    xo: number,
+    u: Float64Array,
+    uo: number,
+    count: number,
+    rb: number,
+    ub: number,
+    out: Float64Array,
+    oo: number,
+  ): void {
+    const { qd, rd, ref, uref, isAngle } = this;
+    const m = this.controlSize;
+    const q0 = qd[0];
+    const q1 = qd[1];
+    const q2 = qd[2];
+    const q3 = qd[3];
+    const r0 = ref[rb];
+    const r1 = ref[rb + 1];
+    const r2 = ref[rb + 2];
+    const r3 = ref[rb + 3];
+    const a0 = isAngle[0] === 1;
+    const a1 = isAngle[1] === 1;
+    const a2 = isAngle[2] === 1;
+    const a3 = isAngle[3] === 1;
+    for (let k = 0; k < count; k++) {
+      const xb = xo + 4 * k;
+      let d0 = x[xb] - r0;
+      let d1 = x[xb + 1] - r1;
+      let d2 = x[xb + 2] - r2;
+      let d3 = x[xb + 3] - r3;
+      if (a0) d0 = wrapAngle(d0);
+      if (a1) d1 = wrapAngle(d1);
+      if (a2) d2 = wrapAngle(d2);
+      if (a3) d3 = wrapAngle(d3);
+      let c = 0;
+      c += q0 * d0 * d0;
+      c += q1 * d1 * d1;
+      c += q2 * d2 * d2;
+      c += q3 * d3 * d3;
+      const ubk = uo + k * m;
+      for (let j = 0; j < m; j++) {
+        const d = u[ubk + j] - uref[ub + j];
+        c += rd[j] * d * d;
+      }
       out[oo + k] += c;
     }
   }
