@@ -11,7 +11,8 @@
  *   mu <- (1 - gamma) mu + gamma sum_i w_i U_i  (gamma = 1);  clip mu;  u = mu_0;
  *   shift mu by one step, fill the tail with the nominal (initial) plan.
  *
- * Models (parameters come from the input, written by bench/src/native.ts from @recede/problems):
+ * Models (parameters come from the input, written by bench/src/native.ts; the throughput suite
+ * passes the values it gives bicycle() and cartPole() of @recede/problems):
  *   0 cart-pole: frictionless Florian (2007) equations, Barto-Sutton-Anderson (1983) parameters,
  *     one classical RK4 step; quadratic cost with wrapped angle + soft track-limit penalty;
  *   1 kinematic bicycle (4 states, Kong et al. 2015): one RK4 step with constant (a, delta);
