@@ -10,5 +10,6 @@ export default defineConfig({
     testTimeout: 120_000,
     hookTimeout: 120_000,
     pool: "forks",
+    setupFiles: ["./vitest.setup.ts"],
   },
 });
