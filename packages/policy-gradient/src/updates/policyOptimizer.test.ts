@@ -130,7 +130,10 @@ describe("policyOptimizer: the update is the geometry's mirror step", () => {
         }
         expect(err).toBeLessThan(1e-7 * (1 + sc));
         // D(x‖y) = ½(x−y)ᵀM(x−y) in both
-        expect(geo.divergence(a, theta)).toBeCloseTo(ref.divergence(a, theta), 8);
+        // (relative: the divergence reaches 10⁵ for some parameter draws)
+        const dGeo = geo.divergence(a, theta);
+        const dRef = ref.divergence(a, theta);
+        expect(Math.abs(dGeo - dRef)).toBeLessThanOrEqual(1e-10 * (1 + Math.abs(dRef)));
       }),
       { numRuns: 15 },
     );
