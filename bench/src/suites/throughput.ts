@@ -56,7 +56,8 @@ const BICYCLE: BicycleOptions = {
   qf: [10, 10, 0, 1],
 };
 
-const CART_POLE: CartPoleOptions = {
+/** The cart-pole options of the throughput comparison (also used by the numpy suite). */
+export const CART_POLE: CartPoleOptions = {
   cartMass: 1,
   poleMass: 0.1,
   halfLength: 0.5,
