@@ -5,12 +5,14 @@
  * JavaScript twin of it (the "JS ceiling", bench/src/mppiReference.ts), in the same run,
  * alternating, several repetitions. All three do the same work: same model, cost, bounds,
  * seeds, normal sampler, per-step gather, clipping, weights, mean update and shift — the suite
- * checks it by comparing their plans after a few steps from the same seed.
+ * checks it by comparing their plans after a few steps from the same seed (to rounding: the
+ * library's models use the core trig kernel, the two hand-written steps the platform's Math/libm).
  *
  * Also measures the normal samplers on the same generator (ziggurat = the library's; Marsaglia
  * polar; Box–Muller), which is how the library's method was chosen, and the cost per call of
  * V8's Math.sin/cos/tan/atan/exp/log against the C library's (bench/native/libm.c), which bounds
- * how close JavaScript can get to C on these trigonometry-bound rollouts.
+ * how close JavaScript can get to C on these trigonometry-bound rollouts, and the core trig kernel
+ * (`kernels.sinCos` of @recede/core, which the library's models use) against Math.sin + Math.cos.
  *
  * Each timed run is a closed loop on the model itself: `warmup` untimed steps, then `steps` timed
  * steps, each followed by advancing the state with the applied control. Rates are medians over
@@ -21,7 +23,7 @@
  * @module
  */
 import { loadavg } from "node:os";
-import { createStream } from "@recede/core";
+import { createStream, kernels } from "@recede/core";
 import { mppi } from "@recede/mpc";
 import { type BicycleOptions, bicycle, type CartPoleOptions, cartPole } from "@recede/problems";
 import { referenceStep } from "../mppiReference.js";
@@ -217,6 +219,24 @@ function pairedRatio(a: readonly number[], b: readonly number[]): number {
   return median(a.map((v, r) => v / b[r]));
 }
 
+/**
+ * Same-work check: the library's models evaluate sin/cos with the core trig kernel
+ * (`kernels.sinCosInPlace`, within 1–2 ulp of libm) and the bicycle forms β through exact
+ * identities instead of `atan`; the hand-written twin and C keep the platform's `Math`/libm. So
+ * the three plans agree to rounding, not bit for bit: |Δ| ≤ tolerance·(1 + |plan|) after
+ * `steps` closed-loop steps (the largest difference measured is recorded beside it).
+ */
+const SAME_WORK_TOLERANCE = 1e-9;
+const SAME_WORK_NOTE =
+  "plans after `steps` closed-loop steps from the same seed; the library's models use the core trig kernel, the twin and C use Math/libm, so they agree to rounding: |Δ| ≤ tolerance·(1 + |plan|)";
+
+/** max_i |a_i − b_i| / (1 + |b_i|). */
+function maxRelDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let d = 0;
+  for (let i = 0; i < a.length; i++) d = Math.max(d, Math.abs(a[i] - b[i]) / (1 + Math.abs(b[i])));
+  return d;
+}
+
 function maxAbsDiff(a: ArrayLike<number>, b: ArrayLike<number>): number {
   let d = 0;
   for (let i = 0; i < a.length; i++) d = Math.max(d, Math.abs(a[i] - b[i]));
@@ -383,11 +403,74 @@ const mathLoops: Record<string, (n: number) => number> = {
   },
 };
 
+// The core trig kernel (kernels.sinCos of @recede/core, used by the bicycle and cart-pole models)
+// against the pair Math.sin + Math.cos, in the same loop as above, plus the same on random
+// arguments in [−4, 4] (quadrants change unpredictably, as in a rollout).
+const trigScratch = new Float64Array(2);
+const trigArgs = (() => {
+  const a = new Float64Array(1 << 16);
+  const st = createStream(3);
+  for (let i = 0; i < a.length; i++) a[i] = 8 * st.uniform() - 4;
+  return a;
+})();
+const trigLoops: Record<string, (n: number) => number> = {
+  math_sin_plus_cos: (n) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      const x = i * 1e-3;
+      s += Math.sin(x) + Math.cos(x);
+    }
+    return s;
+  },
+  kernel_sinCos: (n) => {
+    const sc = trigScratch;
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      kernels.sinCos(i * 1e-3, sc, 0);
+      s += sc[0] + sc[1];
+    }
+    return s;
+  },
+  kernel_sinCosInPlace: (n) => {
+    const sc = trigScratch;
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      sc[0] = i * 1e-3;
+      kernels.sinCosInPlace(sc, 0);
+      s += sc[0] + sc[1];
+    }
+    return s;
+  },
+  random_math_sin_plus_cos: (n) => {
+    const a = trigArgs;
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      const x = a[i & 65535];
+      s += Math.sin(x) + Math.cos(x);
+    }
+    return s;
+  },
+  random_kernel_sinCos: (n) => {
+    const a = trigArgs;
+    const sc = trigScratch;
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      kernels.sinCos(a[i & 65535], sc, 0);
+      s += sc[0] + sc[1];
+    }
+    return s;
+  },
+};
+
 /** ns per call (process CPU time), best of `reps` repetitions of `calls` calls. */
-function v8MathNs(calls: number, reps: number): Record<string, number> {
+function v8MathNs(
+  calls: number,
+  reps: number,
+  loops: Record<string, (n: number) => number> = mathLoops,
+): Record<string, number> {
   const out: Record<string, number> = {};
   let sink = 0;
-  for (const [name, loop] of Object.entries(mathLoops)) {
+  for (const [name, loop] of Object.entries(loops)) {
     sink += loop(calls); // warm-up (optimize the loop)
     let best = Number.POSITIVE_INFINITY;
     for (let r = 0; r < reps; r++) {
@@ -511,10 +594,15 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
         native: nativePhases,
       },
       same_work_check: {
+        note: SAME_WORK_NOTE,
         steps: checkSteps,
+        tolerance: SAME_WORK_TOLERANCE,
         plan_max_abs_diff_library_vs_js_ceiling: maxAbsDiff(lib0.plan, js0.plan),
         plan_max_abs_diff_library_vs_native: nat0 ? maxAbsDiff(lib0.plan, nat0.plan) : null,
         state_max_abs_diff_library_vs_native: nat0 ? maxAbsDiff(lib0.state, nat0.state) : null,
+        within_tolerance:
+          maxRelDiff(lib0.plan, js0.plan) <= SAME_WORK_TOLERANCE &&
+          (nat0 === null || maxRelDiff(lib0.plan, nat0.plan) <= SAME_WORK_TOLERANCE),
       },
       settings: {
         temperature: mc.temperature,
@@ -538,9 +626,15 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
   const mathReps = ctx.quick ? 2 : 5;
   const v8Math = v8MathNs(mathCalls, mathReps);
   const libm = native.ok ? runLibm(native.libmBinary, mathCalls, mathReps) : null;
+  const trig = v8MathNs(mathCalls, mathReps, trigLoops);
   lines.push(
     `math ns/call (CPU time) V8 vs C library: ${Object.keys(v8Math)
       .map((k) => `${k} ${v8Math[k]}${libm ? ` vs ${libm[k]}` : ""}`)
+      .join(", ")}`,
+  );
+  lines.push(
+    `trig kernel ns per (sin, cos) pair (CPU time): ${Object.entries(trig)
+      .map(([k, v]) => `${k} ${v}`)
       .join(", ")}`,
   );
   lines.push(
@@ -555,7 +649,14 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
         : { available: false, reason: native.reason },
       models,
       normal_sampler_ns_per_draw: normals,
-      math_ns_per_call: { v8: v8Math, c_library: libm },
+      math_ns_per_call: {
+        v8: v8Math,
+        c_library: libm,
+        trig_kernel: {
+          note: "ns per (sin x, cos x) pair: kernels.sinCos of @recede/core vs Math.sin(x) + Math.cos(x); x = i·1e-3 as above, or random in [-4, 4]",
+          ...trig,
+        },
+      },
       load_average_1min: { before: round(loadBefore, 3), after: round(loadavg()[0], 3) },
     },
     lines,

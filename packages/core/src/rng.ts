@@ -131,8 +131,14 @@ buildZigguratTables();
 
 /**
  * Layout of the generator record (one Int32Array, so every word stays an untagged int32):
- * main xoshiro128** words, the layer-index reservoir and its count, then the auxiliary
- * xoshiro128** words used only by the ziggurat's rare slow path.
+ * main xoshiro128** words, the layer-index reservoir and its count, the auxiliary xoshiro128**
+ * words used only by the ziggurat's rare slow path, then scratch words (not part of the state):
+ * the last generator output, and the value and layer of a draw handed to the slow path.
+ * Helpers pass int32 values through these words rather than as arguments or return values: a
+ * value crossing a call V8 does not inline must be tagged, and an int32 outside the small-integer
+ * range (±2³⁰ where pointers are compressed, as in browsers) or a double is then allocated on
+ * the heap. `pnpm bench alloc` traced 11 bytes per control step to the slow path's returned
+ * uniform before this layout.
  */
 const S0 = 0;
 const S1 = 1;
@@ -144,7 +150,10 @@ const A0 = 6;
 const A1 = 7;
 const A2 = 8;
 const A3 = 9;
-const STATE_WORDS = 10;
+const OUT = 10;
+const SLOW_H = 11;
+const SLOW_I = 12;
+const STATE_WORDS = 13;
 
 class XoshiroStream implements Stream {
   readonly seed: string;
@@ -163,8 +172,8 @@ class XoshiroStream implements Stream {
     if ((st[A0] | st[A1] | st[A2] | st[A3]) === 0) st[A0] = 1;
   }
 
-  /** Next output of the generator whose words start at `w` (S0 or A0), as a signed int32. */
-  private next32(w: number): number {
+  /** Advance the generator whose words start at `w` (S0 or A0); its output (signed) → st[OUT]. */
+  private next32(w: number): void {
     const st = this.st;
     let s0 = st[w];
     let s1 = st[w + 1];
@@ -183,40 +192,45 @@ class XoshiroStream implements Stream {
     st[w + 1] = s1;
     st[w + 2] = s2;
     st[w + 3] = s3;
-    return r;
-  }
-
-  /** Uniform in the open interval (0, 1) from one auxiliary output: (u + ½)·2⁻³². */
-  private auxOpen01(): number {
-    return ((this.next32(A0) >>> 0) + 0.5) * TWO_POW_M32;
+    st[OUT] = r;
   }
 
   /**
-   * Finish a ziggurat draw whose fast-path test failed for value `h` in layer `i`, writing the
-   * normal to `out[j]`. Draws only from the auxiliary generator, so the main generator advances by
-   * exactly 1.25 words per normal whatever happens here. It writes instead of returning: a double
-   * returned from a call V8 does not inline is boxed on the heap, which made fills allocate.
+   * Finish a ziggurat draw whose fast-path test failed for value h = st[SLOW_H] in layer
+   * i = st[SLOW_I], writing the normal to `out[j]`. Draws only from the auxiliary generator, so the
+   * main generator advances by exactly 1.25 words per normal whatever happens here. Its uniforms
+   * on (0, 1) are (u + ½)·2⁻³² from one auxiliary output u. It writes instead of returning, and
+   * reads h and i from the record instead of arguments (see the layout notes above).
    */
-  private normalSlow(h: number, i: number, out: Float64Array, j: number): void {
+  private normalSlow(out: Float64Array, j: number): void {
+    const st = this.st;
+    let h = st[SLOW_H];
+    let i = st[SLOW_I];
     for (;;) {
       if (i === 0) {
         let xi = 0;
         let y = 0;
         do {
-          xi = -Math.log(this.auxOpen01()) * INV_R;
-          y = -Math.log(this.auxOpen01());
+          this.next32(A0);
+          xi = -Math.log(((st[OUT] >>> 0) + 0.5) * TWO_POW_M32) * INV_R;
+          this.next32(A0);
+          y = -Math.log(((st[OUT] >>> 0) + 0.5) * TWO_POW_M32);
         } while (y + y < xi * xi);
         out[j] = h > 0 ? ZIG_R + xi : -ZIG_R - xi;
         return;
       }
       const x = h * ZIG_W[i];
       const fi = ZIG_F[i];
-      if (fi + this.auxOpen01() * (ZIG_F[i - 1] - fi) < Math.exp(-0.5 * x * x)) {
+      this.next32(A0);
+      const u = ((st[OUT] >>> 0) + 0.5) * TWO_POW_M32;
+      if (fi + u * (ZIG_F[i - 1] - fi) < Math.exp(-0.5 * x * x)) {
         out[j] = x;
         return;
       }
-      h = this.next32(A0);
-      i = this.next32(A0) & 255;
+      this.next32(A0);
+      h = st[OUT];
+      this.next32(A0);
+      i = st[OUT] & 255;
       const k = ZIG_K[i];
       if (h < k && h > -k) {
         out[j] = h * ZIG_W[i];
@@ -226,16 +240,21 @@ class XoshiroStream implements Stream {
   }
 
   uniform(): number {
-    const a = this.next32(S0) >>> 5;
-    const b = this.next32(S0) >>> 6;
+    const st = this.st;
+    this.next32(S0);
+    const a = st[OUT] >>> 5;
+    this.next32(S0);
+    const b = st[OUT] >>> 6;
     return (a * TWO_POW_26 + b) * TWO_POW_M53;
   }
 
   normal(): number {
     const st = this.st;
-    const h = this.next32(S0);
+    this.next32(S0);
+    const h = st[OUT];
     if (st[NBITS] === 0) {
-      st[BITS] = this.next32(S0);
+      this.next32(S0);
+      st[BITS] = st[OUT];
       st[NBITS] = 4;
     }
     const bits = st[BITS];
@@ -245,7 +264,9 @@ class XoshiroStream implements Stream {
     const k = ZIG_K[i];
     if (h < k && h > -k) return h * ZIG_W[i];
     const one = this.one;
-    this.normalSlow(h, i, one, 0);
+    st[SLOW_H] = h;
+    st[SLOW_I] = i;
+    this.normalSlow(one, 0);
     return one[0];
   }
 
@@ -290,7 +311,11 @@ class XoshiroStream implements Stream {
       nbits--;
       const k = ZIG_K[i];
       if (h < k && h > -k) out[j] = h * ZIG_W[i];
-      else this.normalSlow(h, i, out, j);
+      else {
+        st[SLOW_H] = h;
+        st[SLOW_I] = i;
+        this.normalSlow(out, j);
+      }
     }
     st[S0] = s0;
     st[S1] = s1;
@@ -413,12 +438,15 @@ function warmUp(): void {
     s.uniform();
   }
   const slow = s as unknown as {
-    normalSlow(h: number, i: number, out: Float64Array, j: number): void;
+    st: Int32Array;
+    normalSlow(out: Float64Array, j: number): void;
   };
-  slow.normalSlow(2147483647, 0, buf, 0); // tail
-  slow.normalSlow(-2147483647, 0, buf, 1);
-  slow.normalSlow(2147483647, 7, buf, 2); // wedge
-  slow.normalSlow(-2147483647, 200, buf, 3);
+  const cases = [2147483647, 0, -2147483647, 0, 2147483647, 7, -2147483647, 200]; // tail, wedge
+  for (let c = 0; c < 4; c++) {
+    slow.st[SLOW_H] = cases[2 * c];
+    slow.st[SLOW_I] = cases[2 * c + 1];
+    slow.normalSlow(buf, c);
+  }
 }
 warmUp();
 

@@ -789,11 +789,18 @@ class GenericController implements Controller {
     const m = this.controlSize;
     const lo = this.lower;
     const hi = this.upper;
+    // Every load and store runs on every pass: a branch that stores only when the mean leaves the
+    // box has no type feedback until the first time it does, and that first time (often long after
+    // warm-up) deoptimized the whole inlined step, which then ran unoptimized, allocating a heap
+    // number per double operation until V8 re-optimized it (about 1 MB; bench alloc, --trace-deopt).
     for (let p = 0; p < mean.length; p++) {
       const j = p % m;
       const v = mean[p];
-      if (v < lo[j]) mean[p] = lo[j];
-      else if (v > hi[j]) mean[p] = hi[j];
+      const l = lo[j];
+      const h = hi[j];
+      // NaN stays NaN (both comparisons false), as before.
+      // biome-ignore lint/complexity/useMathMinMax: compare-and-select, the form rollout.clip uses.
+      mean[p] = v < l ? l : v > h ? h : v;
     }
   }
 

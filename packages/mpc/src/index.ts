@@ -103,6 +103,7 @@ export {
   type SpreadFill,
   shiftPlan,
 } from "./shift.js";
+export { type AnnealNoiseOptions, annealNoise } from "./variants/annealNoise.js";
 export {
   type EssTemperatureLoss,
   type EssTemperatureOptions,

@@ -75,8 +75,9 @@ describe("createRollout", () => {
     expect(bitEqual(first, eng.costs)).toBe(true);
   });
 
-  it("fails a sample whose state is non-finite at an inner step even if it turns finite again", () => {
-    // x⁺ = +∞ when u > 5, and a non-finite x maps back to 0: only the per-step check sees it.
+  it("with checkEveryStep, fails a sample whose inner state is non-finite even if it turns finite again", () => {
+    // x⁺ = +∞ when u > 5, and a non-finite x maps back to 0, with a cost that never reads x: only
+    // the per-step check sees it.
     const laundering: Dynamics = {
       stateSize: 1,
       controlSize: 1,
@@ -105,12 +106,76 @@ describe("createRollout", () => {
       },
       terminal() {},
     };
-    const eng = createRollout({ dynamics: laundering, cost, samples: 3, horizon: 2 });
+    const eng = createRollout({
+      dynamics: laundering,
+      cost,
+      samples: 3,
+      horizon: 2,
+      checkEveryStep: true,
+    });
     const u = Float64Array.from([1, 1, 9, 1, 0, 2]);
     expect(eng.run(Float64Array.of(0), u, 0, 3)).toBe(1);
     expect(Array.from(eng.failed)).toEqual([0, 1, 0]);
     expect(eng.costs[0]).toBe(2);
     expect(eng.costs[2]).toBe(4);
+    // The default (final state and total cost only) cannot see a laundered state: the documented
+    // reason for the option.
+    const plain = createRollout({ dynamics: laundering, cost, samples: 3, horizon: 2 });
+    expect(plain.run(Float64Array.of(0), u, 0, 3)).toBe(0);
+    expect(plain.costs[1]).toBe(82);
+    catchRecedeError(
+      () =>
+        createRollout({
+          dynamics: laundering,
+          cost,
+          samples: 3,
+          horizon: 2,
+          checkEveryStep: 1 as unknown as boolean,
+        }),
+      { fn: "createRollout", arg: "checkEveryStep" },
+    );
+  });
+
+  it("flags a NaN that appears mid-horizon exactly as the per-step check does", () => {
+    // The cart-pole with a fault: the step at t = 4 writes NaN into the cart velocity of every
+    // third sample; later steps and the cost carry it to x_H and C_k.
+    const kk = 12;
+    const hh = 9;
+    const faulty: Dynamics = {
+      stateSize: 4,
+      controlSize: 1,
+      step(x, xo, u, uo, count, t) {
+        cp.dynamics.step(x, xo, u, uo, count, t);
+        if (t !== 4) return;
+        for (let i = 0; i < count; i++) {
+          const sample = xo / 4 + i;
+          if (sample % 3 === 1) x[xo + 4 * i + 1] = Number.NaN;
+        }
+      },
+    };
+    const u = samples().subarray(0, kk * hh);
+    const make = (checkEveryStep: boolean) =>
+      createRollout({
+        dynamics: faulty,
+        cost: cp.cost,
+        samples: kk,
+        horizon: hh,
+        lower: cp.bounds.lower,
+        upper: cp.bounds.upper,
+        checkEveryStep,
+      });
+    const perStep = make(true);
+    const atEnd = make(false);
+    const ua = u.slice();
+    perStep.clip(ua, 0, kk);
+    const x0 = cp.initialState();
+    expect(perStep.run(x0, ua, 0, 5) + perStep.run(x0, ua, 5, 7)).toBe(4);
+    expect(atEnd.run(x0, ua, 0, 5) + atEnd.run(x0, ua, 5, 7)).toBe(4);
+    expect(Array.from(atEnd.failed)).toEqual(Array.from(perStep.failed));
+    expect(Array.from(atEnd.failed)).toEqual([0, 1, 0, 0, 1, 0, 0, 1, 0, 0, 1, 0]);
+    expect(bitEqual(atEnd.costs, perStep.costs)).toBe(true);
+    expect(bitEqual(atEnd.states, perStep.states)).toBe(true);
+    expect(atEnd.costs[1]).toBe(Number.POSITIVE_INFINITY);
   });
 
   it("clips every component to its bounds, in place, only within the slice", () => {

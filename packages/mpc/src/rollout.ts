@@ -28,6 +28,22 @@ export interface RolloutOptions {
    * @defaultValue false
    */
   readonly sharedMemory?: boolean;
+  /**
+   * Test every state for non-finite values after every step, instead of only the final states and
+   * the summed cost of each sample.
+   *
+   * Without it (the default), a sample is marked failed when its final state x_H or its total cost
+   * C_k is non-finite. NaN and ±∞ propagate through arithmetic, so a non-finite state at an inner
+   * step reaches x_H or C_k — through the next steps of the model, or through the cost of that
+   * state (every term of the problems' costs reads every state component) — and the flags are the
+   * same as with the per-step test. Turn this on for a model *and* cost that can launder a
+   * non-finite state back into a finite one (e.g. a model that maps NaN to a finite value, with a
+   * cost that does not read that component): the per-step test then still flags the sample.
+   * It costs one pass over the slice's states per step: about 4–5 % of the rollout time on the
+   * bicycle and cart-pole of @recede/problems (K = 2000, H = 50; bench/RESULTS.md §4).
+   * @defaultValue false
+   */
+  readonly checkEveryStep?: boolean;
 }
 
 /**
@@ -67,6 +83,8 @@ const FN = "createRollout";
  * For each sample k of a slice: x_0 = x0; for t = 0 … H−1: gather u_{k,t}, C_k += c(x_t, u_t, t),
  * x_{t+1} = f(x_t, u_t, t); then C_k += c_H(x_H). A sample whose state turns non-finite at any step,
  * whose cost is non-finite, or for which the model or cost throws, is marked failed with C_k = +∞.
+ * Non-finite states are found from x_H and C_k, through which they propagate (or after every step
+ * with `checkEveryStep`, for models and costs that can turn a non-finite state finite again).
  * A throw inside a batched call fails the whole call, so the slice is then re-run one sample at a
  * time to isolate the throwing samples (the others keep their exact costs).
  * Source: the sampling-MPC rollout of G. Williams et al., "Information Theoretic MPC for
@@ -112,7 +130,10 @@ export function createRollout(options: RolloutOptions): Rollout {
   const shared = options.sharedMemory ?? false;
   if (typeof shared !== "boolean")
     throw new RecedeError("type", FN, "sharedMemory", "a boolean", shared);
-  return new RolloutEngine(dyn, cost, n, m, k, h, lower, upper, shared);
+  const everyStep = options.checkEveryStep ?? false;
+  if (typeof everyStep !== "boolean")
+    throw new RecedeError("type", FN, "checkEveryStep", "a boolean", everyStep);
+  return new RolloutEngine(dyn, cost, n, m, k, h, lower, upper, shared, everyStep);
 }
 
 /** The buffers a rollout engine works in (internal: worker threads adopt the controller's). */
@@ -136,6 +157,7 @@ export function adoptRollout(
   lower: Float64Array,
   upper: Float64Array,
   buffers: RolloutBuffers,
+  checkEveryStep = false,
 ): Rollout {
   return new RolloutEngine(
     dynamics,
@@ -147,6 +169,7 @@ export function adoptRollout(
     lower,
     upper,
     false,
+    checkEveryStep,
     buffers,
   );
 }
@@ -168,6 +191,7 @@ class RolloutEngine implements Rollout {
     private readonly lower: Float64Array,
     private readonly upper: Float64Array,
     shared: boolean,
+    private readonly everyStep: boolean,
     buffers?: RolloutBuffers,
   ) {
     this.costs = buffers?.costs ?? float64Buffer(samples, shared);
@@ -191,22 +215,36 @@ class RolloutEngine implements Rollout {
     const hi = this.upper;
     const start = first * this.horizon * m;
     const end = (first + count) * this.horizon * m;
+    // Compare-and-select (as the C reference does; NaN stays NaN as with Math.min/max), stored on
+    // every value: a store reached only when a value leaves the box has no type feedback until it
+    // first runs, and V8 then deoptimizes the compiled loop.
     if (m === 1) {
       const l = lo[0];
-      const u = hi[0];
+      const h = hi[0];
       for (let p = start; p < end; p++) {
         const v = samples[p];
-        // Compare-and-select (as the C reference does); NaN stays NaN as with Math.min/max.
-        if (v < l) samples[p] = l;
-        else if (v > u) samples[p] = u;
+        samples[p] = clampTo(v, l, h);
+      }
+      return;
+    }
+    if (m === 2) {
+      // Unrolled: the generic loop below costs about twice as much per value (bench/RESULTS.md §4).
+      const l0 = lo[0];
+      const l1 = lo[1];
+      const h0 = hi[0];
+      const h1 = hi[1];
+      for (let p = start; p < end; p += 2) {
+        const v0 = samples[p];
+        const v1 = samples[p + 1];
+        samples[p] = clampTo(v0, l0, h0);
+        samples[p + 1] = clampTo(v1, l1, h1);
       }
       return;
     }
     for (let p = start; p < end; p += m) {
       for (let j = 0; j < m; j++) {
         const v = samples[p + j];
-        if (v < lo[j]) samples[p + j] = lo[j];
-        else if (v > hi[j]) samples[p + j] = hi[j];
+        samples[p + j] = clampTo(v, lo[j], hi[j]);
       }
     }
   }
@@ -215,6 +253,8 @@ class RolloutEngine implements Rollout {
     try {
       this.runBatch(x0, samples, first, count);
     } catch {
+      // A batched call threw: isolate the throwing samples one at a time (the others keep their
+      // exact costs).
       for (let k = first; k < first + count; k++) {
         try {
           this.runBatch(x0, samples, k, 1);
@@ -223,15 +263,31 @@ class RolloutEngine implements Rollout {
         }
       }
     }
+    return this.settle(first, count);
+  }
+
+  /**
+   * Fail the samples of the slice that threw, or whose total cost or final state is non-finite
+   * (x·0 is NaN exactly for non-finite x; a non-finite inner state propagates to one of the two);
+   * returns the number of failures.
+   */
+  private settle(first: number, count: number): number {
+    const n = this.stateSize;
+    const x = this.states;
     const costs = this.costs;
     const failed = this.failed;
     let nf = 0;
     for (let k = first; k < first + count; k++) {
-      if (failed[k] === 1 || !(Math.abs(costs[k]) < Number.POSITIVE_INFINITY)) {
-        failed[k] = 1;
-        costs[k] = Number.POSITIVE_INFINITY;
-        nf++;
-      }
+      const b = k * n;
+      let z = 0;
+      for (let i = 0; i < n; i++) z += x[b + i] * 0;
+      const c = costs[k];
+      // Stores on every pass, not only on failure (a store first reached long after warm-up
+      // deoptimizes the compiled loop).
+      const bad = failed[k] === 1 || z !== 0 || !(Math.abs(c) < Number.POSITIVE_INFINITY);
+      failed[k] = bad ? 1 : 0;
+      costs[k] = bad ? Number.POSITIVE_INFINITY : c;
+      nf += bad ? 1 : 0;
     }
     return nf;
   }
@@ -266,31 +322,68 @@ class RolloutEngine implements Rollout {
     const failed = this.failed;
     const dyn = this.dynamics;
     const cost = this.cost;
+    const everyStep = this.everyStep;
     const xo = first * n;
     const uo = first * m;
     const hm = h * m;
     for (let t = 0; t < h; t++) {
       // Gather u_{k,t} for the slice into contiguous rows.
-      for (let k = first; k < first + count; k++) {
-        const src = k * hm + t * m;
-        const dst = k * m;
-        for (let j = 0; j < m; j++) u[dst + j] = samples[src + j];
-      }
+      gather(samples, u, first, count, t * m, hm, m);
       cost.running(x, xo, u, uo, count, t, costs, first);
       dyn.step(x, xo, u, uo, count, t);
-      // Mark samples whose state became non-finite (x·0 is NaN exactly for non-finite x): one
-      // flat pass over the slice's states, and a per-sample pass only when it finds something.
-      let z = 0;
-      for (let i = xo; i < xo + count * n; i++) z += x[i] * 0;
-      if (z !== 0) {
-        for (let k = first; k < first + count; k++) {
-          const b = k * n;
-          let zk = 0;
-          for (let i = 0; i < n; i++) zk += x[b + i] * 0;
-          if (zk !== 0) failed[k] = 1;
+      if (everyStep) {
+        // Mark samples whose state became non-finite (x·0 is NaN exactly for non-finite x): one
+        // flat pass over the slice's states, and a per-sample pass only when it finds something.
+        let z = 0;
+        for (let i = xo; i < xo + count * n; i++) z += x[i] * 0;
+        if (z !== 0) {
+          for (let k = first; k < first + count; k++) {
+            const b = k * n;
+            let zk = 0;
+            for (let i = 0; i < n; i++) zk += x[b + i] * 0;
+            if (zk !== 0) failed[k] = 1;
+          }
         }
       }
     }
+  }
+}
+
+/**
+ * v clipped to [l, h] by compare-and-select; NaN stays NaN. (Not Math.min/Math.max: those differ
+ * on signed zeros, and these are the C reference's comparisons, so plans stay bit-identical.)
+ */
+function clampTo(v: number, l: number, h: number): number {
+  // biome-ignore lint/complexity/useMathMinMax: bit-identical compare-and-select (see above).
+  return v < l ? l : v > h ? h : v;
+}
+
+/** u[k·m + j] ← samples[k·hm + tm + j] for the slice's samples k. */
+function gather(
+  samples: Float64Array,
+  u: Float64Array,
+  first: number,
+  count: number,
+  tm: number,
+  hm: number,
+  m: number,
+): void {
+  if (m === 1) {
+    for (let k = first; k < first + count; k++) u[k] = samples[k * hm + tm];
+    return;
+  }
+  if (m === 2) {
+    for (let k = first; k < first + count; k++) {
+      const src = k * hm + tm;
+      u[2 * k] = samples[src];
+      u[2 * k + 1] = samples[src + 1];
+    }
+    return;
+  }
+  for (let k = first; k < first + count; k++) {
+    const src = k * hm + tm;
+    const dst = k * m;
+    for (let j = 0; j < m; j++) u[dst + j] = samples[src + j];
   }
 }
 

@@ -182,7 +182,9 @@ export function pendulum(options: PendulumOptions = {}): PendulumProblem {
         const th = x[b];
         const w = x[b + 1];
         const tq = cu * u[uo + k];
-        // classical RK4 with the state in locals (no scratch, no allocation)
+        // classical RK4 with the state in locals (no scratch, no allocation). Math.sin, not the
+        // core trig kernel: for a lone sine per stage the kernel (sin and cos together) measured
+        // slower (bench/RESULTS.md §2, "Trig kernel")
         const k1t = w;
         const k1w = tq - cb * w - cg * Math.sin(th);
         const k2t = w + 0.5 * h * k1w;

@@ -3,12 +3,19 @@
  *
  * @module
  */
-import { type Dynamics, RecedeError, requireInteger, requirePositive } from "@recede/core";
+import { type Dynamics, kernels, RecedeError, requireInteger, requirePositive } from "@recede/core";
 import { quadraticCost } from "./costs/quadraticCost.js";
 import { parseVector, parseWeight, square, type WeightInput } from "./internal/options.js";
 import { Rk4Jacobian, type VectorField } from "./internal/rk4.js";
 import { fmt, holdTest } from "./internal/success.js";
 import { type LinearQuadratic, type Problem, wrapAngle } from "./problem.js";
+
+/**
+ * The core trig kernel (in-place form: no double crosses the call, so nothing is allocated even
+ * where V8 does not inline it), bound once, and its scratch: sc[0] = θ in, (sin θ, cos θ) out.
+ */
+const sinCosInPlace = kernels.sinCosInPlace;
+const sc = new Float64Array(2);
 
 /**
  * External disturbance acting on a planar quadrotor (gusts, payload swing, ground effect …).
@@ -150,7 +157,9 @@ export interface PlanarQuadrotorProblem extends Problem {
  *   I θ̈ = r (u₁ − u₂) + τ,
  * with 0 ≤ u_i ≤ u_max, θ the roll angle (positive tilts thrust towards −x) and (F_x, F_y, τ) an
  * optional external disturbance ({@link QuadrotorDisturbance}, default none) held constant over
- * each step. One classical RK4 step per Δt. Parameter values are ours (no textbook values were
+ * each step. One classical RK4 step per Δt; sin θ and cos θ come from the core trig kernel
+ * (`kernels.sinCosInPlace` of @recede/core: deterministic, the same bits on every JavaScript
+ * engine, within 1–2 ulp of `Math`). Parameter values are ours (no textbook values were
  * confirmed): m = 1 kg, r = 0.2 m, I = 0.02 kg·m², u_max = m g; the linear drag c_d (default 0,
  * as in the textbook model) is an addition of ours.
  *
@@ -208,12 +217,13 @@ export function planarQuadrotor(options: PlanarQuadrotorOptions = {}): PlanarQua
     m: 2,
     deriv(x, xo, u, uo, out, oo): void {
       const T = u[uo] + u[uo + 1];
-      const th = x[xo + 2];
+      sc[0] = x[xo + 2];
+      sinCosInPlace(sc, 0);
       out[oo] = x[xo + 3];
       out[oo + 1] = x[xo + 4];
       out[oo + 2] = x[xo + 5];
-      out[oo + 3] = -T * Math.sin(th) * invM - cd * x[xo + 3];
-      out[oo + 4] = T * Math.cos(th) * invM - g - cd * x[xo + 4];
+      out[oo + 3] = -T * sc[0] * invM - cd * x[xo + 3];
+      out[oo + 4] = T * sc[1] * invM - g - cd * x[xo + 4];
       out[oo + 5] = rOverI * (u[uo] - u[uo + 1]);
     },
     partials(x, xo, u, uo, fx, fu): void {
@@ -267,30 +277,39 @@ export function planarQuadrotor(options: PlanarQuadrotorOptions = {}): PlanarQua
         const vx = x[b + 3];
         const vy = x[b + 4];
         const w = x[b + 5];
-        // RK4: only θ enters the accelerations nonlinearly; θ̈ is constant over the step
+        // RK4: only θ enters the accelerations nonlinearly; θ̈ is constant over the step; sin
+        // and cos of each stage angle from one call of the core trig kernel
         const k1x = vx;
         const k1y = vy;
         const k1t = w;
-        const k1vx = ax - Tm * Math.sin(th) - cd * vx;
-        const k1vy = ay + Tm * Math.cos(th) - cd * vy;
+        sc[0] = th;
+        sinCosInPlace(sc, 0);
+        const k1vx = ax - Tm * sc[0] - cd * vx;
+        const k1vy = ay + Tm * sc[1] - cd * vy;
         const k2x = vx + 0.5 * h * k1vx;
         const k2y = vy + 0.5 * h * k1vy;
         const k2t = w + 0.5 * h * aw;
         const th2 = th + 0.5 * h * k1t;
-        const k2vx = ax - Tm * Math.sin(th2) - cd * k2x;
-        const k2vy = ay + Tm * Math.cos(th2) - cd * k2y;
+        sc[0] = th2;
+        sinCosInPlace(sc, 0);
+        const k2vx = ax - Tm * sc[0] - cd * k2x;
+        const k2vy = ay + Tm * sc[1] - cd * k2y;
         const k3x = vx + 0.5 * h * k2vx;
         const k3y = vy + 0.5 * h * k2vy;
         const k3t = k2t;
         const th3 = th + 0.5 * h * k2t;
-        const k3vx = ax - Tm * Math.sin(th3) - cd * k3x;
-        const k3vy = ay + Tm * Math.cos(th3) - cd * k3y;
+        sc[0] = th3;
+        sinCosInPlace(sc, 0);
+        const k3vx = ax - Tm * sc[0] - cd * k3x;
+        const k3vy = ay + Tm * sc[1] - cd * k3y;
         const k4x = vx + h * k3vx;
         const k4y = vy + h * k3vy;
         const k4t = w + h * aw;
         const th4 = th + h * k3t;
-        const k4vx = ax - Tm * Math.sin(th4) - cd * k4x;
-        const k4vy = ay + Tm * Math.cos(th4) - cd * k4y;
+        sc[0] = th4;
+        sinCosInPlace(sc, 0);
+        const k4vx = ax - Tm * sc[0] - cd * k4x;
+        const k4vy = ay + Tm * sc[1] - cd * k4y;
         const c = h / 6;
         x[b] = px + c * (k1x + 2 * k2x + 2 * k3x + k4x);
         x[b + 1] = py + c * (k1y + 2 * k2y + 2 * k3y + k4y);

@@ -9,4 +9,5 @@ export {
   gemv,
   symv,
 } from "./matrix.js";
+export { sinCos, sinCosInPlace, trigReductionLimit } from "./trig.js";
 export { axpy, copy, dot, fill, nrm2, scale } from "./vector.js";

@@ -31,6 +31,11 @@ export function logSumExp(n: number, a: Float64Array, oa: number): number {
  *
  * NaN scores count as −∞ (weight 0). Returns lse(a); when it is −∞ (no finite score) `w` is not
  * written. When some score is +∞, the +∞ entries share the weight equally.
+ *
+ * With an output array `lse` (and offset `ol`), lse(a) is written to `lse[ol]` instead of being
+ * returned. Hot loops should use this form: V8 boxes a non-integer double returned from a call
+ * it does not inline (16 bytes on the heap per call; `pnpm bench alloc` traced one per MPPI step
+ * to this return), while a double stored into a Float64Array is not boxed.
  */
 export function expWeights(
   n: number,
@@ -38,27 +43,48 @@ export function expWeights(
   oa: number,
   w: Float64Array,
   ow: number,
-): number {
+): number;
+export function expWeights(
+  n: number,
+  a: Float64Array,
+  oa: number,
+  w: Float64Array,
+  ow: number,
+  lse: Float64Array,
+  ol: number,
+): void;
+export function expWeights(
+  n: number,
+  a: Float64Array,
+  oa: number,
+  w: Float64Array,
+  ow: number,
+  lse?: Float64Array,
+  ol = 0,
+): number | undefined {
   let m = Number.NEGATIVE_INFINITY;
   for (let i = 0; i < n; i++) {
     const v = a[oa + i];
     if (v > m) m = v;
   }
-  if (m === Number.NEGATIVE_INFINITY) return m;
+  let r = m;
   if (m === Number.POSITIVE_INFINITY) {
     let c = 0;
     for (let i = 0; i < n; i++) if (a[oa + i] === m) c++;
     for (let i = 0; i < n; i++) w[ow + i] = a[oa + i] === m ? 1 / c : 0;
-    return m;
+  } else if (m !== Number.NEGATIVE_INFINITY) {
+    let s = 0;
+    for (let i = 0; i < n; i++) {
+      const v = a[oa + i];
+      const e = v > Number.NEGATIVE_INFINITY ? Math.exp(v - m) : 0;
+      w[ow + i] = e;
+      s += e;
+    }
+    const inv = 1 / s;
+    for (let i = 0; i < n; i++) w[ow + i] *= inv;
+    r = m + Math.log(s);
   }
-  let s = 0;
-  for (let i = 0; i < n; i++) {
-    const v = a[oa + i];
-    const e = v > Number.NEGATIVE_INFINITY ? Math.exp(v - m) : 0;
-    w[ow + i] = e;
-    s += e;
-  }
-  const inv = 1 / s;
-  for (let i = 0; i < n; i++) w[ow + i] *= inv;
-  return m + Math.log(s);
+  if (lse === undefined) return r;
+  lse[ol] = r;
+  return undefined;
 }

@@ -60,15 +60,24 @@ class CustomLoss implements SampleLoss {
     private readonly score: (costs: Float64Array, count: number, scores: Float64Array) => void,
   ) {}
 
+  /** Scratch for {@link SampleLoss.weigh} (which returns what `weighInto` writes). */
+  private readonly one: Float64Array = new Float64Array(1);
+
   weigh(costs: Float64Array, count: number, weights: Float64Array): number {
+    this.weighInto(costs, count, weights, this.one);
+    return this.one[0];
+  }
+
+  weighInto(costs: Float64Array, count: number, weights: Float64Array, out: Float64Array): void {
     if (this.scores.length < count) this.scores = new Float64Array(count);
     const a = this.scores;
     this.score(costs, count, a);
     for (let i = 0; i < count; i++) {
       if (!Number.isFinite(costs[i]) || Number.isNaN(a[i])) a[i] = Number.NEGATIVE_INFINITY;
     }
-    const lse = kernels.expWeights(count, a, 0, weights, 0);
-    if (!Number.isFinite(lse)) return Number.NaN;
-    return -(lse - Math.log(count));
+    // lse(a) through out[0]: a returned double is boxed when the kernel is not inlined.
+    kernels.expWeights(count, a, 0, weights, 0, out, 0);
+    const lse = out[0];
+    out[0] = lse - lse === 0 ? -(lse - Math.log(count)) : Number.NaN;
   }
 }

@@ -74,7 +74,9 @@ class ExponentialUtility implements SampleLoss {
       // Non-finite cost → −∞ score → weight 0; (c − ρ)·inv may overflow to +∞ → weight 0 (exact limit).
       a[i] = Number.isFinite(c) ? -(c - rho) * inv : Number.NEGATIVE_INFINITY;
     }
-    const lse = kernels.expWeights(count, a, 0, weights, 0);
-    out[0] = rho - this.temperature * (lse - Math.log(count));
+    // lse(a) comes back through out[0], not as a return value (which V8 boxes when the kernel is
+    // not inlined: 16 bytes per control step, traced by the sampling heap profiler).
+    kernels.expWeights(count, a, 0, weights, 0, out, 0);
+    out[0] = rho - this.temperature * (out[0] - Math.log(count));
   }
 }

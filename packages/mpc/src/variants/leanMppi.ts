@@ -14,6 +14,7 @@ import { type Controller, createController } from "../controller.js";
 import { gaussianPlan } from "../distributions/gaussian.js";
 import { requireObject } from "../internal/input.js";
 import { type MeanFill, shiftPlan } from "../shift.js";
+import { annealNoise } from "./annealNoise.js";
 import { essTemperature } from "./essTemperature.js";
 import { reuseBest } from "./reuseBest.js";
 
@@ -32,12 +33,19 @@ export interface LeanMppiOptions {
   /** Initial exploration σ₀ > 0 (number, length m, or H·m). @defaultValue 1 */
   readonly noise?: number | Float64Array | readonly number[];
   /**
-   * Refit the variance by the KL mirror step (σ shrinks where the samples agree); the shift
-   * re-widens the new last step to σ₀.
-   * @defaultValue true
+   * Scales s_i of the sample deviations at iteration i of each control step (annealNoise): wide
+   * first, narrow last. `[1]` switches the schedule off.
+   * @defaultValue [1, 0.1]
+   */
+  readonly anneal?: readonly number[];
+  /**
+   * Also refit the variance by the KL mirror step (σ shrinks where the samples agree; the shift
+   * re-widens the new last step to σ₀). Off by default: at small K the refit shrinks σ during the
+   * swing-up as well (bench/RESULTS.md, "Sample efficiency").
+   * @defaultValue false
    */
   readonly adaptVariance?: boolean;
-  /** Floor σ_min on the refitted σ. @defaultValue 0.1 × the smallest σ₀ entry */
+  /** Floor σ_min on the refitted σ (with `adaptVariance`). @defaultValue 0.1 × the smallest σ₀ entry */
   readonly minStd?: number;
   /** AR(1) noise correlation a ∈ [0, 1). @defaultValue 0.8 */
   readonly correlation?: number;
@@ -63,28 +71,38 @@ const FN = "leanMppi";
 
 /**
  * MPPI for small sample budgets: the generic controller with
- *   plan  = reuseBest(gaussianPlan({ std: σ₀, correlation: a, adaptVariance, minStd }), { keep: r }),
+ *   plan  = reuseBest(annealNoise(gaussianPlan({ std: σ₀, correlation: a, adaptVariance, minStd }),
+ *             { scales: s }), { keep: r }),
  *   loss  = essTemperature({ targetFraction: f }),   geometry "kl", γ = 1,
  *   iterations mirror steps per control step, shift = shiftPlan({ fill }) (variance tail reset to σ₀²).
+ * Iteration i of a control step samples U = μ + s_i σ₀ ⊙ e (AR(1) noise e), keeps the r best
+ * sequences of the previous iteration as its first r samples, weighs all K by exp(−(C − C_min)/λ)
+ * with λ set for ESS ≈ max(1, f·K), and moves μ to the weighted average.
  * Each part addresses one waste of plain MPPI at small K: smooth AR(1) noise explores at the time
  * scale of the dynamics instead of averaging white noise away; the best sequences of the last
  * iteration are kept (shifted) instead of redrawn; λ follows the cost spread (which shrinks by
- * orders of magnitude during a swing-up) instead of being fixed; the variance shrinks where the
- * samples agree. (No separate mean sample: reuseBest's rows 0 … r−1 would overwrite it.) On the reference pendulum and
- * cart-pole swing-ups this reaches the closed-loop cost of tuned MPPI at K = 2048 with tens of
- * samples per step (bench/RESULTS.md, "Sample efficiency", with the defaults σ₀ = 0.5·bound).
- * Symbols ↔ options: σ₀ ↔ `noise`, a ↔ `correlation`, r ↔ `keep`, f ↔ `targetFraction`.
+ * orders of magnitude during a swing-up) instead of being fixed; the noise schedule gives every
+ * control step one wide look (large moves, e.g. a committed first push of a swing-up) and one
+ * narrow refinement (a precise applied control near the goal). (No separate mean sample: reuseBest's
+ * rows 0 … r−1 would overwrite it.) On the reference pendulum and cart-pole swing-ups this reaches
+ * the closed-loop cost of tuned MPPI at K = 2048 with 32–64 samples per step on held-out seeds
+ * (bench/RESULTS.md, "Sample efficiency", σ₀ = 0.5·bound on the pendulum, 1·bound on the
+ * cart-pole, chosen on tuning seeds).
+ * Symbols ↔ options: σ₀ ↔ `noise`, a ↔ `correlation`, r ↔ `keep`, f ↔ `targetFraction`,
+ * s ↔ `anneal`.
  *
- * Exactly `createController({ name: "lean-mppi", plan: reuseBest(gaussianPlan({ mean, std: noise,
- * correlation, adaptVariance, minStd }), { keep }), loss: essTemperature({
- * targetFraction }), geometry: "kl", stepSize: 1, iterations, shift: shiftPlan({ fill }), … })`
- * (a test checks bit-identity).
+ * Exactly `createController({ name: "lean-mppi", plan: reuseBest(annealNoise(gaussianPlan({ mean,
+ * std: noise, correlation, adaptVariance, minStd }), { scales: anneal }), { keep }), loss:
+ * essTemperature({ targetFraction }), geometry: "kl", stepSize: 1, iterations, shift:
+ * shiftPlan({ fill }), … })` (a test checks bit-identity).
  *
  * Derived variant ("derived here"); its parts' sources: G. Williams et al., "Information Theoretic
  * MPC for Model-Based Reinforcement Learning", ICRA 2017 (MPPI); N. Wagener, C.-A. Cheng, J. Sacks,
  * B. Boots, "An Online Learning Approach to Model Predictive Control", RSS 2019 (mirror steps,
  * variance refit, shift); C. Pinneri et al., "Sample-efficient Cross-Entropy Method for Real-time
- * Planning", CoRL 2020 (colored noise, kept and shifted elites).
+ * Planning", CoRL 2020 (colored noise, kept and shifted elites); H. Xue et al., "Full-Order
+ * Sampling-Based MPC for Torque-Level Locomotion Control via Diffusion-Style Annealing", 2024
+ * (noise scale annealed over the iterations; from memory).
  *
  * @example
  * ```ts
@@ -118,13 +136,16 @@ export function leanMppi(options: LeanMppiOptions): Controller {
     horizon: options.horizon,
     samples,
     plan: reuseBest(
-      gaussianPlan({
-        mean: options.mean,
-        std: noise,
-        correlation: options.correlation ?? 0.8,
-        adaptVariance: options.adaptVariance ?? true,
-        minStd,
-      }),
+      annealNoise(
+        gaussianPlan({
+          mean: options.mean,
+          std: noise,
+          correlation: options.correlation ?? 0.8,
+          adaptVariance: options.adaptVariance ?? false,
+          minStd,
+        }),
+        { scales: options.anneal ?? [1, 0.1] },
+      ),
       { keep },
     ),
     loss: essTemperature({ targetFraction: options.targetFraction ?? 0.03 }),

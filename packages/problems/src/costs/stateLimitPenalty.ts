@@ -81,29 +81,74 @@ export function stateLimitPenalty(options: StateLimitPenaltyOptions): CostModel 
     }
   });
   const withTerminal = options.terminal ?? true;
-  const penalty = (x: Float64Array, b: number): number => {
-    let s = 0;
-    for (let j = 0; j < L; j++) {
-      const v = x[b + idx[j]];
-      if (v > hi[j]) {
-        const e = v - hi[j];
-        s += w[j] * e * e + flag[j];
-      } else if (v < lo[j]) {
-        const e = lo[j] - v;
-        s += w[j] * e * e + flag[j];
-      }
+  return new StateLimitTerm(n, m, idx, lo, hi, w, flag, withTerminal);
+}
+
+/**
+ * The soft-limit cost (internal class: `sumCosts` recognises it and fuses it into the pass of a
+ * preceding diagonal {@link quadraticCost}, see quadraticCost.ts `runningWithLimits`).
+ */
+export class StateLimitTerm implements CostModel {
+  constructor(
+    readonly stateSize: number,
+    readonly controlSize: number,
+    /** State component of each limit. */
+    readonly idx: Int32Array,
+    /** Lower limits (−∞ for none). */
+    readonly lo: Float64Array,
+    /** Upper limits (+∞ for none). */
+    readonly hi: Float64Array,
+    /** Weights w. */
+    readonly w: Float64Array,
+    /** Violation costs. */
+    readonly flag: Float64Array,
+    /** Whether the terminal cost charges the penalty too. */
+    readonly withTerminal: boolean,
+  ) {}
+
+  running(
+    x: Float64Array,
+    xo: number,
+    _u: Float64Array,
+    _uo: number,
+    count: number,
+    _t: number,
+    out: Float64Array,
+    oo: number,
+  ): void {
+    this.charge(x, xo, count, out, oo);
+  }
+
+  terminal(x: Float64Array, xo: number, count: number, out: Float64Array, oo: number): void {
+    if (this.withTerminal) this.charge(x, xo, count, out, oo);
+  }
+
+  /** out[oo+k] += penalty(x_k), the penalty summed over the limits in their order. */
+  private charge(x: Float64Array, xo: number, count: number, out: Float64Array, oo: number): void {
+    const n = this.stateSize;
+    const { idx, lo, hi, w, flag } = this;
+    const L = idx.length;
+    for (let k = 0; k < count; k++) {
+      const b = xo + k * n;
+      let s = 0;
+      for (let j = 0; j < L; j++) s += limitPenalty(x[b + idx[j]], lo[j], hi[j], w[j], flag[j]);
+      out[oo + k] += s;
     }
-    return s;
-  };
-  return {
-    stateSize: n,
-    controlSize: m,
-    running(x, xo, _u, _uo, count, _t, out, oo): void {
-      for (let k = 0; k < count; k++) out[oo + k] += penalty(x, xo + k * n);
-    },
-    terminal(x, xo, count, out, oo): void {
-      if (!withTerminal) return;
-      for (let k = 0; k < count; k++) out[oo + k] += penalty(x, xo + k * n);
-    },
-  };
+  }
+}
+
+/**
+ * w·e² + violationCost with e = v − upper when v > upper, e = lower − v when v < lower; −0 inside
+ * (NaN counts as inside). Written for V8's type feedback: every operation runs on every call, and
+ * "inside" is the double −0, not the small integer 0, so no operation first sees a double (or runs
+ * at all) long after warm-up — which deoptimized the compiled rollout once per process (seen with
+ * `--trace-deopt`). Callers add it to a sum that starts at +0 (0 + (−0) = +0), so the bits are
+ * those of the branchy form: for doubles, v − upper > 0 exactly when v > upper.
+ */
+export function limitPenalty(v: number, lo: number, hi: number, w: number, flag: number): number {
+  const over = v - hi;
+  const under = lo - v;
+  const e = over > 0 ? over : under > 0 ? under : -0;
+  const p = w * e * e + flag;
+  return e > 0 ? p : -0;
 }
