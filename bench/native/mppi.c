@@ -59,13 +59,17 @@ static inline double wrap_angle(double a) {
  * params: mc mp l g dt q0 q1 q2 q3 r qf0 qf1 qf2 qf3 trackLimit trackWeight trackFlag */
 static inline void cp_accel(const double *p, double th, double w, double F, double *xdd,
                             double *thdd) {
+  /* constants folded as in cartPole() of @recede/problems (one division per call) */
   const double mc = p[0], mp = p[1], l = p[2], g = p[3];
   const double M = mc + mp;
   const double mpl = mp * l;
+  const double invM = 1 / M;
+  const double l43 = (4.0 / 3.0) * l;
+  const double lmpM = (l * mp) / M;
   const double s = sin(th);
   const double c = cos(th);
-  const double t = (g * s + (c * (-F - mpl * w * w * s)) / M) / (l * (4.0 / 3.0 - (mp * c * c) / M));
-  *xdd = (F + mpl * (w * w * s - t * c)) / M;
+  const double t = (g * s - c * (F + mpl * w * w * s) * invM) / (l43 - lmpM * c * c);
+  *xdd = (F + mpl * (w * w * s - t * c)) * invM;
   *thdd = t;
 }
 
@@ -142,25 +146,37 @@ static void bk_step(const double *p, double *x, const double *u, int count) {
     double *b = x + 4 * k;
     const double acc = u[2 * k];
     const double td = tan(u[2 * k + 1]);
-    const double beta = atan(kr * td);
-    const double yaw_per_speed = (cos(beta) * td) / L;
+    /* same algebra as bicycle() of @recede/problems: beta = atan(kr tan delta) is never formed;
+       cos beta = 1/sqrt(1 + tan^2 beta), sin beta = tan beta cos beta, and the stage angles
+       psi + beta enter through the angle-addition formulas (sin and cos from libm) */
+    const double ktd = kr * td;
+    const double cbeta = 1 / sqrt(1 + ktd * ktd);
+    const double sbeta = ktd * cbeta;
+    const double yaw_per_speed = (td * cbeta) / L;
     const double px = b[0], py = b[1], psi = b[2], v = b[3];
     const double v2 = v + 0.5 * h * acc;
     const double v4 = v + h * acc;
-    const double k1x = v * cos(psi + beta);
-    const double k1y = v * sin(psi + beta);
+    double sn = sin(psi), cs = cos(psi);
+    const double k1x = v * (cs * cbeta - sn * sbeta);
+    const double k1y = v * (sn * cbeta + cs * sbeta);
     const double k1p = v * yaw_per_speed;
-    const double p2 = psi + 0.5 * h * k1p + beta;
-    const double k2x = v2 * cos(p2);
-    const double k2y = v2 * sin(p2);
+    const double p2 = psi + 0.5 * h * k1p;
+    sn = sin(p2);
+    cs = cos(p2);
+    const double k2x = v2 * (cs * cbeta - sn * sbeta);
+    const double k2y = v2 * (sn * cbeta + cs * sbeta);
     const double k2p = v2 * yaw_per_speed;
-    const double p3 = psi + 0.5 * h * k2p + beta;
-    const double k3x = v2 * cos(p3);
-    const double k3y = v2 * sin(p3);
+    const double p3 = psi + 0.5 * h * k2p;
+    sn = sin(p3);
+    cs = cos(p3);
+    const double k3x = v2 * (cs * cbeta - sn * sbeta);
+    const double k3y = v2 * (sn * cbeta + cs * sbeta);
     const double k3p = k2p;
-    const double p4 = psi + h * k3p + beta;
-    const double k4x = v4 * cos(p4);
-    const double k4y = v4 * sin(p4);
+    const double p4 = psi + h * k3p;
+    sn = sin(p4);
+    cs = cos(p4);
+    const double k4x = v4 * (cs * cbeta - sn * sbeta);
+    const double k4y = v4 * (sn * cbeta + cs * sbeta);
     const double k4p = v4 * yaw_per_speed;
     const double c = h / 6;
     b[0] = px + c * (k1x + 2 * k2x + 2 * k3x + k4x);
