@@ -83,6 +83,13 @@ export interface ControllerParts {
    */
   readonly timing?: boolean;
   /**
+   * Check every intermediate rollout state for non-finite values, not only the final state and
+   * the summed cost (see {@link RolloutOptions}`.checkEveryStep`): needed only for a model or cost
+   * that can turn a non-finite state finite again; costs about 4–5 % of the rollout.
+   * @defaultValue false
+   */
+  readonly checkEveryStep?: boolean;
+  /**
    * Put the sample, state, cost and weight buffers on SharedArrayBuffers (for worker threads that
    * process slices in place; the computation itself is unchanged).
    * @defaultValue false (true with `workers`)
@@ -247,6 +254,9 @@ export function createController(parts: ControllerParts): Controller {
   const n = requireInteger(fn, "dynamics.stateSize", dyn.stateSize, 1);
   const m = requireInteger(fn, "dynamics.controlSize", dyn.controlSize, 1);
   const horizon = requireInteger(fn, "horizon", parts.horizon, 1);
+  if (parts.checkEveryStep !== undefined && typeof parts.checkEveryStep !== "boolean") {
+    throw new RecedeError("type", fn, "checkEveryStep", "a boolean", parts.checkEveryStep);
+  }
   const samples = requireInteger(fn, "samples", parts.samples ?? 256, 1);
   const iterations = requireInteger(fn, "iterations", parts.iterations ?? 1, 1);
   const sliceSize = requireInteger(fn, "sliceSize", parts.sliceSize ?? 64, 1);
@@ -343,6 +353,7 @@ export function createController(parts: ControllerParts): Controller {
       lower,
       upper,
       sharedMemory: shared,
+      checkEveryStep: parts.checkEveryStep ?? false,
     });
   } else {
     if (!dist.meanIsParameter) {

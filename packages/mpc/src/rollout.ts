@@ -57,6 +57,8 @@ export interface RolloutOptions {
 export interface Rollout {
   /** K. */
   readonly samples: number;
+  /** Whether every intermediate state is checked for non-finite values ({@link RolloutOptions}). */
+  readonly checkEveryStep: boolean;
   /** H. */
   readonly horizon: number;
   /** n. */
@@ -191,7 +193,7 @@ class RolloutEngine implements Rollout {
     private readonly lower: Float64Array,
     private readonly upper: Float64Array,
     shared: boolean,
-    private readonly everyStep: boolean,
+    readonly checkEveryStep: boolean,
     buffers?: RolloutBuffers,
   ) {
     this.costs = buffers?.costs ?? float64Buffer(samples, shared);
@@ -322,7 +324,7 @@ class RolloutEngine implements Rollout {
     const failed = this.failed;
     const dyn = this.dynamics;
     const cost = this.cost;
-    const everyStep = this.everyStep;
+    const everyStep = this.checkEveryStep;
     const xo = first * n;
     const uo = first * m;
     const hm = h * m;
@@ -351,7 +353,7 @@ class RolloutEngine implements Rollout {
 
 /**
  * v clipped to [l, h] by compare-and-select; NaN stays NaN. (Not Math.min/Math.max: those differ
- * on signed zeros, and these are the C reference's comparisons, so plans stay bit-identical.)
+ * on signed zeros; these are the C reference's comparisons, so clipped controls match it bit for bit.)
  */
 function clampTo(v: number, l: number, h: number): number {
   // biome-ignore lint/complexity/useMathMinMax: bit-identical compare-and-select (see above).

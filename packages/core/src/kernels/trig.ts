@@ -136,3 +136,21 @@ export function sinCosInPlace(buf: Float64Array, offset: number): void {
   buf[offset] = (odd ? c : s) * (1 - (q & 2));
   buf[offset + 1] = (odd ? s : c) * (1 - ((q + 1) & 2));
 }
+
+/**
+ * Give every branch of {@link sinCosInPlace} type feedback once, at load. A branch that has never
+ * run compiles to a deoptimization in the optimized code of the caller it is inlined into, so the
+ * first tiny, huge or non-finite angle after warm-up would deoptimize the whole model step
+ * (measured: the cart-pole's RK4 step, inside the allocation benchmark's window, `--trace-deopt`:
+ * "Insufficient type feedback for compare operation"). Same pattern as the warm-up in rng.ts.
+ */
+function warmUp(): void {
+  const b = new Float64Array(2);
+  const xs = [0.5, 2, -3, 1e-12, -0, 1e7, Number.NaN, Number.POSITIVE_INFINITY];
+  for (let i = 0; i < xs.length; i++) {
+    b[0] = xs[i];
+    sinCosInPlace(b, 0);
+    sinCos(xs[i], b, 0);
+  }
+}
+warmUp();

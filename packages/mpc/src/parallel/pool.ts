@@ -313,6 +313,7 @@ class WorkerPool implements RolloutWorkers, WorkerBinding {
         state,
         sampled: b.sampled,
         buffers: rolloutBuffers(b.rollout),
+        checkEveryStep: b.rollout.checkEveryStep,
         sliceFailures,
         sampler,
       };
@@ -332,6 +333,7 @@ class WorkerPool implements RolloutWorkers, WorkerBinding {
         state,
         sampled: b.sampled,
         buffers: rolloutBuffers(b.rollout),
+        checkEveryStep: b.rollout.checkEveryStep,
         sliceFailures,
         sampler,
       } satisfies BindConfig);

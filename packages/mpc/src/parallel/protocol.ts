@@ -74,6 +74,8 @@ export interface BindConfig {
   /** The K·H·m samples. */
   readonly sampled: Float64Array;
   readonly buffers: RolloutBuffers;
+  /** The controller's rollout checks every intermediate state (RolloutOptions.checkEveryStep). */
+  readonly checkEveryStep: boolean;
   /** Failures per slice. */
   readonly sliceFailures: Int32Array;
   /** Draw the worker's slices in the worker (Gaussian plans), or null: the main thread samples. */

@@ -106,6 +106,7 @@ function bind(port: MessagePort, model: { dynamics: Dynamics; cost: CostModel })
     config.lower,
     config.upper,
     config.buffers,
+    config.checkEveryStep,
   );
   const streams: Stream[] = [];
   if (config.sampler !== null) {

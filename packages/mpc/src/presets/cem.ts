@@ -53,6 +53,8 @@ export interface CemOptions {
   readonly sliceSize?: number;
   /** Measure `report.wallTimeMs` (two clock reads, 32 bytes per step; see ControllerParts.timing). @defaultValue false */
   readonly timing?: boolean;
+  /** Check every intermediate rollout state for non-finite values (see ControllerParts.checkEveryStep). @defaultValue false */
+  readonly checkEveryStep?: boolean;
   /** Rollout worker threads (see ControllerParts.workers). @defaultValue none */
   readonly workers?: RolloutWorkers;
 }
@@ -100,6 +102,7 @@ export function cem(options: CemOptions): Controller {
     seed: options.seed,
     sliceSize: options.sliceSize,
     timing: options.timing,
+    checkEveryStep: options.checkEveryStep,
     workers: options.workers,
   });
 }

@@ -43,6 +43,8 @@ export interface MppiOptions {
   readonly sliceSize?: number;
   /** Measure `report.wallTimeMs` (two clock reads, 32 bytes per step; see ControllerParts.timing). @defaultValue false */
   readonly timing?: boolean;
+  /** Check every intermediate rollout state for non-finite values (see ControllerParts.checkEveryStep). @defaultValue false */
+  readonly checkEveryStep?: boolean;
   /** Rollout worker threads (see ControllerParts.workers). @defaultValue none */
   readonly workers?: RolloutWorkers;
 }
@@ -86,6 +88,7 @@ export function mppi(options: MppiOptions): Controller {
     seed: options.seed,
     sliceSize: options.sliceSize,
     timing: options.timing,
+    checkEveryStep: options.checkEveryStep,
     workers: options.workers,
   });
 }
