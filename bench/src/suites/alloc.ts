@@ -4,8 +4,8 @@
  * the cart-pole (closed loop: the controller acts, a separate instance of the problem's model
  * advances the state), in two configurations:
  *  - "1e5 steps": K = 64 samples, H = 20, 1e5 control steps for `mppi` (2·10⁴ for the other two);
- *  - "real": K = 2000, H = 50 (the throughput configuration), 2000 steps for `mppi` (300 for the
- *    other two, which take 2–3 times longer per step).
+ *  - "real": K = 2000, H = 50 (the throughput configuration), 2000 steps of `mppi` on both models,
+ *    300 of `cem` and `leanMppi` on the cart-pole (2–3 mirror steps per control step).
  *
  * Method. Each measurement runs in a fresh child process `node --expose-gc
  * --min-semi-space-size=128 --max-semi-space-size=128 --trace-opt --trace-deopt`, and every
@@ -17,8 +17,9 @@
  *     `warmup`/10 more steps (a full collection can discard optimized code that referred to dead
  *     objects: it is re-optimized here, not in the window);
  *  3. measure an empty window twice (the measurement's own bytes, reported as `empty_window_bytes`);
- *  4. print a window-start marker, read `process.memoryUsage().heapUsed` = h₀, run N steps, read
- *     h₁, print a window-end marker;
+ *  4. print a window-start marker, read `process.memoryUsage().heapUsed` = h₀, run N/2 steps, read
+ *     it again (a steady per-step cost shows in both halves, a one-time cost in one), run N/2 more,
+ *     read h₁, print a window-end marker;
  *  5. count the collections that started inside the window; `gc()` twice more for the retained
  *     growth h₂ − h₀ (a leak check).
  * V8 allocates new objects by bumping a pointer in the young generation (128 MB here), so every
@@ -27,12 +28,16 @@
  * The parent reads V8's `--trace-opt`/`--trace-deopt` lines between the two markers and reports
  * how many functions V8 compiled (tier-ups) and deoptimized inside the window: compiling allocates
  * on the heap once (feedback, code metadata), and a deoptimized function runs unoptimized, boxing
- * doubles, until it is re-optimized. So a nonzero figure with zero events is a steady per-step
- * allocation; one with events is (at least partly) one-time noise, and the lines say which.
+ * doubles, until it is re-optimized. Some one-time costs print no trace line (baseline compiles,
+ * inline-cache updates): the two halves separate those from a steady per-step cost, which shows
+ * equally in both.
  *
- * Positive controls (same loop, 1e4 steps at K = 64, H = 20, and 200 steps at K = 2000, H = 50, on
- * the bicycle with `mppi`): one `new Float64Array(8)` per step, and one boxed double per step (a
- * non-integer double stored into an array of tagged elements: 16 bytes). Both must show up.
+ * `--quick` divides steps and warm-ups by 10: a smoke test only (100 warm-up steps at K = 2000 leave
+ * `act` unoptimized, about 300 B per step), its figures say nothing about the target.
+ *
+ * Positive controls (same loop, bicycle, `mppi`): one `new Float64Array(8)` per step (1e4 steps at
+ * K = 64), and one boxed double per step (a non-integer stored into an array of tagged elements:
+ * 16 bytes; 1e4 steps at K = 64 and 200 at K = 2000). Both must show up.
  *
  * @module
  */
@@ -69,6 +74,8 @@ interface ChildResult extends Job {
   heap_used_after: number;
   heap_growth_bytes: number;
   bytes_per_step: number;
+  /** The same over the first and the second half of the window (the midpoint reading counts in the second). */
+  bytes_per_step_halves: [number, number];
   gc_during_steps: number;
   exact: boolean;
   retained_growth_after_gc_bytes: number;
@@ -186,7 +193,11 @@ async function child(job: Job): Promise<ChildMeasurement> {
   process.stdout.write(`${START}\n`);
   const h0 = process.memoryUsage().heapUsed;
   const t0 = performance.now();
-  loop(first, job.steps);
+  // Two halves: a steady per-step cost shows equally in both, a one-time cost in one only.
+  const half = Math.floor(job.steps / 2);
+  loop(first, half);
+  const hm = process.memoryUsage().heapUsed;
+  loop(first + half, job.steps - half);
   const t1 = performance.now();
   const h1 = process.memoryUsage().heapUsed;
   process.stdout.write(`${END}\n`);
@@ -202,6 +213,7 @@ async function child(job: Job): Promise<ChildMeasurement> {
     heap_used_after: h1,
     heap_growth_bytes: h1 - h0,
     bytes_per_step: (h1 - h0) / job.steps,
+    bytes_per_step_halves: [(hm - h0) / half, (h1 - hm) / (job.steps - half)],
     gc_during_steps: gcs,
     exact: gcs === 0,
     retained_growth_after_gc_bytes: h2 - h0,
@@ -279,7 +291,8 @@ function describe(runs: readonly ChildResult[]): string {
         r.tier_ups_in_window + r.deopts_in_window === 0
           ? "no tier-up or deopt"
           : `${r.tier_ups_in_window} tier-ups, ${r.deopts_in_window} deopts: ${r.window_events.join(", ")}`;
-      return `${r.bytes_per_step.toFixed(3)} (${r.gc_during_steps} GCs${r.exact ? ", exact" : ", lower bound"}; ${ev}; empty window ${r.empty_window_bytes} B; retained ${r.retained_growth_after_gc_bytes} B)`;
+      const halves = r.bytes_per_step_halves.map((v) => v.toFixed(3)).join(" / ");
+      return `${r.bytes_per_step.toFixed(3)} (halves ${halves}; ${r.gc_during_steps} GCs${r.exact ? ", exact" : ", lower bound"}; ${ev}; empty window ${r.empty_window_bytes} B; retained ${r.retained_growth_after_gc_bytes} B)`;
     })
     .join(" | ");
   const what = j.control === "none" ? j.variant : `${j.variant} + control ${j.control}`;
@@ -336,6 +349,7 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
     steps: runs[0].steps,
     max_bytes_per_step: Math.max(...runs.map((r) => r.bytes_per_step)),
     bytes_per_step_by_process: runs.map((r) => r.bytes_per_step),
+    bytes_per_step_halves_by_process: runs.map((r) => r.bytes_per_step_halves),
     all_exact: runs.every((r) => r.exact),
     events_in_window: runs.map((r) => r.tier_ups_in_window + r.deopts_in_window),
     empty_window_bytes: runs.map((r) => r.empty_window_bytes),

@@ -239,7 +239,9 @@ class GaussianPlan implements PlanDistribution {
     const tv = this.targetVar;
     const sums = this.sums;
     weightedSum(samples, count, weights, len, tm, sums);
-    const wsum = sums[0];
+    // No double is loaded into a local on the normalized path: this method runs once per
+    // iteration, so V8 optimizes it late (after about a thousand control steps at K = 2000), and
+    // until then every double local is a heap allocation (bench alloc, --trace-opt).
     if (normalized) {
       if (this.adapt) {
         weightedSpread(samples, count, weights, len, tm, tv);
@@ -249,6 +251,7 @@ class GaussianPlan implements PlanDistribution {
       }
     } else {
       // Signed weights: m⁺ = m + γ(Σ v φ − (Σ v) m) in expectation parameters (μ, σ² + μ²).
+      const wsum = sums[0];
       const mean = this.mean;
       const variance = this.variance;
       if (this.adapt) weightedSecondMoment(samples, count, weights, len, tv);
