@@ -1,5 +1,6 @@
 import { createStream, kernels } from "@recede/core";
 import { describe, expect, it } from "vitest";
+import { essTemperature } from "../variants/essTemperature.js";
 import { customLoss } from "./customLoss.js";
 import { eliteFraction } from "./eliteFraction.js";
 import { expectedCost } from "./expectedCost.js";
@@ -12,6 +13,7 @@ describe("SampleLoss.weighInto", () => {
     ["eliteFraction", eliteFraction({ fraction: 0.25 })],
     ["expectedCost", expectedCost()],
     ["customLoss", customLoss({ score: (c, n, a) => a.set(c.subarray(0, n).map((v) => -v / 3)) })],
+    ["essTemperature", essTemperature({ targetFraction: 0.2 })],
   ];
   for (const [name, loss] of losses) {
     it(`${name}: writes the same estimate and weights as weigh, bit for bit (with failed samples)`, () => {

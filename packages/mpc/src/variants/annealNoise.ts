@@ -129,23 +129,13 @@ class AnnealNoise implements PlanDistribution {
     this.blocks = inner.blocks;
   }
 
-  /** The scale the next draw uses. */
-  get scale(): number {
-    const last = this.scales.length - 1;
-    const i = this.count[0];
-    return this.scales[Math.min(i, last)];
-  }
-
   sample(stream: Stream, first: number, count: number, out: Float64Array): void {
     this.inner.sample(stream, first, count, out);
-    const s = this.scale;
-    if (s === 1) return;
-    const len = this.horizon * this.controlSize;
-    const mu = this.mean;
-    for (let k = first; k < first + count; k++) {
-      const base = k * len;
-      for (let p = 0; p < len; p++) out[base + p] = mu[p] + s * (out[base + p] - mu[p]);
-    }
+    // The scale index is passed, not the scale: a double argument to a call V8 does not inline
+    // would be boxed (allocated).
+    const i = Math.min(this.count[0], this.scales.length - 1);
+    if (this.scales[i] === 1) return;
+    scaleRows(out, this.mean, this.horizon * this.controlSize, first, count, this.scales, i);
   }
 
   update(
@@ -162,5 +152,26 @@ class AnnealNoise implements PlanDistribution {
   sync(): void {
     this.inner.sync();
     this.count[0] = 0;
+  }
+}
+
+/**
+ * Rows first … first+count−1 of `out` (length `len` each) ← μ + s·(row − μ), s = scales[index]. A module function, so
+ * the loop is compiled on its own (as the Gaussian plan's loops are) and the caller keeps its type
+ * feedback.
+ */
+function scaleRows(
+  out: Float64Array,
+  mu: Float64Array,
+  len: number,
+  first: number,
+  count: number,
+  scales: Float64Array,
+  index: number,
+): void {
+  const s = scales[index];
+  for (let k = first; k < first + count; k++) {
+    const base = k * len;
+    for (let p = 0; p < len; p++) out[base + p] = mu[p] + s * (out[base + p] - mu[p]);
   }
 }

@@ -87,6 +87,10 @@ class EssTemperature implements EssTemperatureLoss {
   private scores = new Float64Array(0);
   /** [λ, ESS] of the last call, in a typed array so updates allocate nothing. */
   private readonly last = Float64Array.of(Number.NaN, Number.NaN);
+  /** [β, ESS] handed to and from essInto without boxing. */
+  private readonly io = new Float64Array(2);
+  /** Scratch for {@link SampleLoss.weigh} (which returns what `weighInto` writes). */
+  private readonly one = new Float64Array(1);
 
   constructor(
     readonly targetFraction: number,
@@ -103,6 +107,11 @@ class EssTemperature implements EssTemperatureLoss {
   }
 
   weigh(costs: Float64Array, count: number, weights: Float64Array): number {
+    this.weighInto(costs, count, weights, this.one);
+    return this.one[0];
+  }
+
+  weighInto(costs: Float64Array, count: number, weights: Float64Array, out: Float64Array): void {
     if (this.scores.length < count) this.scores = new Float64Array(count);
     const a = this.scores;
     this.last[0] = Number.NaN;
@@ -114,7 +123,10 @@ class EssTemperature implements EssTemperatureLoss {
       const c = costs[i];
       if (c < rho) rho = c; // NaN never compares less
     }
-    if (!Number.isFinite(rho)) return Number.NaN;
+    if (!Number.isFinite(rho)) {
+      out[0] = Number.NaN;
+      return;
+    }
     for (let i = 0; i < count; i++) {
       const c = costs[i];
       if (Number.isFinite(c)) {
@@ -138,17 +150,24 @@ class EssTemperature implements EssTemperatureLoss {
       let lo = Math.max(Math.log(spread) - 9 * Math.LN10, LN_MIN_LAMBDA);
       let hi = Math.max(Math.log(spread) + 9 * Math.LN10, lo);
       const band = this.tolerance * target;
-      ess = this.ess(a, count, Math.exp(-hi));
+      const io = this.io;
+      io[0] = Math.exp(-hi);
+      essInto(a, count, io);
+      ess = io[1];
       lambda = Math.exp(hi);
       if (ess > target + band) {
-        const essLo = this.ess(a, count, Math.exp(-lo));
+        io[0] = Math.exp(-lo);
+        essInto(a, count, io);
+        const essLo = io[1];
         if (essLo >= target - band) {
           lambda = Math.exp(lo);
           ess = essLo;
         } else {
           for (let s = 0; s < this.maxSteps; s++) {
             const mid = 0.5 * (lo + hi);
-            const e = this.ess(a, count, Math.exp(-mid));
+            io[0] = Math.exp(-mid);
+            essInto(a, count, io);
+            const e = io[1];
             lambda = Math.exp(mid);
             ess = e;
             if (e > target + band) hi = mid;
@@ -164,22 +183,27 @@ class EssTemperature implements EssTemperatureLoss {
       const c = costs[i];
       a[i] = Number.isFinite(c) ? -(c - rho) * inv : Number.NEGATIVE_INFINITY;
     }
-    const lse = kernels.expWeights(count, a, 0, weights, 0);
+    kernels.expWeights(count, a, 0, weights, 0, out, 0);
     this.last[0] = lambda;
     this.last[1] = ess;
-    if (lambda === Number.POSITIVE_INFINITY) return ok === count ? rho : Number.POSITIVE_INFINITY;
-    return rho - lambda * (lse - Math.log(count));
+    if (lambda === Number.POSITIVE_INFINITY) out[0] = ok === count ? rho : Number.POSITIVE_INFINITY;
+    else out[0] = rho - lambda * (out[0] - Math.log(count));
   }
+}
 
-  /** Kish ESS of exp(−β d) over d (d = +∞ for failed samples, contributing 0). */
-  private ess(d: Float64Array, count: number, beta: number): number {
-    let s1 = 0;
-    let s2 = 0;
-    for (let i = 0; i < count; i++) {
-      const e = Math.exp(-beta * d[i]);
-      s1 += e;
-      s2 += e * e;
-    }
-    return (s1 * s1) / s2;
+/**
+ * io[1] ← Kish ESS (Σe)²/Σe² of e_i = exp(−io[0]·d_i) (d = +∞ for failed samples, contributing 0).
+ * β and the result travel through `io`: a double passed to or returned from a call V8 does not
+ * inline would be boxed (allocated) on every bisection step.
+ */
+function essInto(d: Float64Array, count: number, io: Float64Array): void {
+  const beta = io[0];
+  let s1 = 0;
+  let s2 = 0;
+  for (let i = 0; i < count; i++) {
+    const e = Math.exp(-beta * d[i]);
+    s1 += e;
+    s2 += e * e;
   }
+  io[1] = (s1 * s1) / s2;
 }

@@ -63,7 +63,10 @@ export interface LeanMppiOptions {
   readonly seed?: number | string;
   /** Samples per random-stream slice. @defaultValue 64 */
   readonly sliceSize?: number;
-  /** Measure `report.wallTimeMs`. @defaultValue true */
+  /**
+   * Measure `report.wallTimeMs` (two clock reads, 32 bytes per step; see ControllerParts.timing).
+   * @defaultValue false (as in the presets: the step then allocates nothing after warm-up)
+   */
   readonly timing?: boolean;
 }
 
@@ -84,10 +87,11 @@ const FN = "leanMppi";
  * orders of magnitude during a swing-up) instead of being fixed; the noise schedule gives every
  * control step one wide look (large moves, e.g. a committed first push of a swing-up) and one
  * narrow refinement (a precise applied control near the goal). (No separate mean sample: reuseBest's
- * rows 0 … r−1 would overwrite it.) On the reference pendulum and cart-pole swing-ups this reaches
- * the closed-loop cost of tuned MPPI at K = 2048 with 32–64 samples per step on held-out seeds
- * (bench/RESULTS.md, "Sample efficiency", σ₀ = 0.5·bound on the pendulum, 1·bound on the
- * cart-pole, chosen on tuning seeds).
+ * rows 0 … r−1 would overwrite it.) On the reference swing-ups it matches tuned MPPI at K = 2048
+ * (within 5 %, ≥ 7/8 successes, 16 held-out seeds) with 40 samples per step on the pendulum and 16
+ * on the cart-pole, where it is 18 % below MPPI's cost at 64 (bench/RESULTS.md, "Sample
+ * efficiency"; σ₀ = 1·bound on the pendulum and 0.5·bound on the cart-pole, chosen on tuning
+ * seeds).
  * Symbols ↔ options: σ₀ ↔ `noise`, a ↔ `correlation`, r ↔ `keep`, f ↔ `targetFraction`,
  * s ↔ `anneal`.
  *
