@@ -414,14 +414,16 @@ async function evaluate(
 
 /**
  * The grid of plain MPPI at K = 2048: temperatures λ (cost units) × σ (fraction of the bound).
- * Narrowed from an earlier 5 × 3 grid (λ ∈ {0.1, 0.3, 1, 3, 10}, run on tuning seeds 1–4; recorded
- * in bench/RESULTS.md): λ ∈ {0.1, 0.3} was never better than λ ∈ {1, 3, 10} by more than the seed
- * noise, σ = 2·bound was worse than σ = 1·bound on the cart-pole, and λ ≥ 30 was worse in a pilot.
+ * λ ∈ {0.1, 0.3} of an earlier 5 × 3 grid (run on tuning seeds 1–4; recorded in bench/RESULTS.md)
+ * was never better than λ ∈ {1, 3, 10} by more than the seed noise. A 3 × 3 grid
+ * λ ∈ {1, 3, 10} × σ ∈ {0.25, 0.5, 1} chose the corner λ = 10, σ = 1 on the cart-pole and the edge
+ * λ = 10 on the pendulum (review, 2026-12-02), so the grid extends past both edges: the chosen
+ * point must lie inside the grid for the reference to be the best plain MPPI can do.
  */
 export const REFERENCE_GRID: {
   readonly temperatures: readonly number[];
   readonly noise: readonly number[];
-} = { temperatures: [1, 3, 10], noise: [0.25, 0.5, 1] };
+} = { temperatures: [1, 3, 10, 30, 100], noise: [0.25, 0.5, 1, 2] };
 const QUICK_GRID = { temperatures: [3, 10], noise: [0.5, 1] };
 
 /** Tuning seeds (every choice is made on these) and held-out evaluation seeds (every result). */

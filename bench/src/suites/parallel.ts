@@ -65,6 +65,15 @@ interface Runner {
   run(n: number): number;
 }
 
+/**
+ * Slice size for K samples: the presets' default 64, but at least two slices for small K (below
+ * two slices a controller runs on the main thread alone, so the sweep could not see a switch-over
+ * there).
+ */
+function sliceFor(k: number): number {
+  return Math.max(1, Math.min(64, Math.floor(k / 2)));
+}
+
 async function runner(mc: ModelCase, workers: number, k: number, h: number): Promise<Runner> {
   const pool = await startRolloutWorkers({
     model: { module: "@recede/problems", factory: mc.factory, args: [] },
@@ -77,6 +86,7 @@ async function runner(mc: ModelCase, workers: number, k: number, h: number): Pro
     workers: pool,
     horizon: h,
     samples: k,
+    sliceSize: sliceFor(k),
     noise: mc.noise,
     temperature: 1,
     bounds: mc.bounds,
@@ -268,8 +278,8 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
     );
   }
 
-  // 2. Switch-over on the bicycle, H = 20, default slices of 64.
-  const grid = quick ? [128, 512, 2048] : [128, 192, 256, 384, 512, 768, 1024, 2048];
+  // 2. Switch-over on the bicycle, H = 20, slices of 64 (of K/2 below K = 128: sliceFor).
+  const grid = quick ? [128, 512, 2048] : [16, 32, 64, 128, 192, 256, 384, 512, 768, 1024, 2048];
   const h = 20;
   const sweep: Record<string, unknown>[] = [];
   for (const k of grid) {
@@ -327,7 +337,12 @@ async function run(ctx: SuiteContext): Promise<SuiteOutput> {
       method:
         "closed loop on the model; 1-thread (pool with 0 workers) and 2-thread (main + 1 worker) mppi controllers alternate, medians over repetitions and fastest repetition; same-work check: plans bit-identical after the runs",
       speedup,
-      switch_over: { horizon: h, slice_size: 64, grid: sweep, work: switchOver },
+      switch_over: {
+        horizon: h,
+        slice_size: "64, or K/2 below K = 128",
+        grid: sweep,
+        work: switchOver,
+      },
       handoff,
       machine_parallel_capacity: capacity.map((c) => round(c, 3)),
       load_average_1min: { before: round(loadBefore, 3), after: round(loadavg()[0], 3) },

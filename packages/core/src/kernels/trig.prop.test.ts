@@ -111,6 +111,13 @@ describe("kernels.sinCos laws", () => {
   });
 
   it("just below the limit the kernel still reduces: within 2 ulp of Math", () => {
+    // A double where the reduction and V8's Math differ in the last bit (found by a scan below
+    // the limit): equal bits there would mean the kernel fell back to Math.
+    const pinned = 823549.6645826212;
+    expect(pinned).toBeLessThan(trigReductionLimit);
+    const [ps] = sc(pinned);
+    expect(ps).not.toBe(Math.sin(pinned));
+    expect(Math.abs(ps - Math.sin(pinned))).toBeLessThanOrEqual(2 * ulp(Math.sin(pinned)));
     let x = trigReductionLimit;
     for (let i = 0; i < 50; i++) {
       x = x - ulp(x); // the 50 doubles just below the limit

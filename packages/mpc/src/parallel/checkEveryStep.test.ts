@@ -1,6 +1,8 @@
 import { RecedeError } from "@recede/core";
 import { describe, expect, it } from "vitest";
+import { cem } from "../presets/cem.js";
 import { mppi } from "../presets/mppi.js";
+import { leanMppi } from "../variants/leanMppi.js";
 import { laundering } from "./launderingModel.fixture.js";
 import { startRolloutWorkers } from "./pool.js";
 
@@ -50,6 +52,29 @@ describe("checkEveryStep through the controller", () => {
     } finally {
       await pool.close();
     }
+  });
+
+  it("cem and leanMppi pass it on too", () => {
+    const x = new Float64Array(1);
+    const run = (
+      make: (o: { checkEveryStep: boolean }) => {
+        act(x: Float64Array): { report: { failedSamples: number } };
+      },
+    ) => [false, true].map((c) => make({ checkEveryStep: c }).act(x).report.failedSamples);
+    const [cemPlain, cemStrict] = run((o) => cem({ ...laundering(), ...options, std: [4], ...o }));
+    expect(cemStrict).toBeGreaterThan(cemPlain);
+    const [leanPlain, leanStrict] = run((o) =>
+      leanMppi({
+        ...laundering(),
+        horizon: 6,
+        samples: 128,
+        sliceSize: 16,
+        noise: 4,
+        seed: 3,
+        ...o,
+      }),
+    );
+    expect(leanStrict).toBeGreaterThan(leanPlain);
   });
 
   it("rejects a non-boolean with a typed error", () => {

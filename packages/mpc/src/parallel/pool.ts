@@ -37,14 +37,15 @@ import {
 import { buildModel, type ModelRecipe } from "./recipe.js";
 
 /**
- * Default of {@link RolloutWorkersOptions.minWork}, an estimate: one sample-step of the reference
- * models costs 100–300 ns in the whole MPPI step and a hand-off round trip through the control
- * block about 4 µs (up to ~100 µs when the worker must be woken on a loaded machine), so from
- * K·H ≈ 4096 (≈ 0.3 ms saved by the second thread) the workers should win. `pnpm bench parallel`
- * measures the switch-over (field `switch_over`); on the shared benchmark machine no second core
- * was free when it ran, so measure on your own machine and set `minWork` from it.
+ * Default of {@link RolloutWorkersOptions.minWork}, from a measurement: `pnpm bench parallel`
+ * (field `switch_over`; bicycle, H = 20, 2-core Xeon at 2.6 GHz, Node 20, quiet machine,
+ * 2026-12-02) found one thread faster at K·H = 320, 640 and 1280 (0.121 vs 0.134 ms per step)
+ * and two threads faster from K·H = 2560 on (0.235 vs 0.200 ms); interpolating the step times
+ * puts the crossing near K·H ≈ 1600, so 2048 is a round value just above it. The hand-off round
+ * trip is tens of µs and grows when the worker must be woken on a loaded machine: measure on
+ * your own machine and set `minWork` from it.
  */
-export const DEFAULT_MIN_WORK = 4096;
+export const DEFAULT_MIN_WORK = 2048;
 
 /** Options of {@link startRolloutWorkers}. */
 export interface RolloutWorkersOptions {
@@ -60,7 +61,7 @@ export interface RolloutWorkersOptions {
    * Smallest amount of work K·H (samples × horizon) for which a controller uses the workers;
    * smaller controllers run entirely on the main thread, where the hand-off would cost more than
    * it saves.
-   * @defaultValue 4096 (an estimate; `pnpm bench parallel` measures the switch-over)
+   * @defaultValue 2048 (measured switch-over on a 2-core machine; `pnpm bench parallel`)
    */
   readonly minWork?: number;
   /**

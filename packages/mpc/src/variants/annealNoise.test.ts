@@ -112,7 +112,7 @@ describe("annealNoise", () => {
     // compare the empirical standard deviation of the last iteration's unclipped deviations.
     const sigma = 2;
     const k = 400;
-    const spreadOf = (scales: number[], iterations: number): number => {
+    const spreadOf = (scales: number[], iterations: number, acts = 1): number => {
       const ctrl = createController(
         parts({
           samples: k,
@@ -124,7 +124,7 @@ describe("annealNoise", () => {
         }),
       );
       const x = cp.initialState();
-      ctrl.act(x);
+      for (let a = 0; a < acts; a++) ctrl.act(x);
       // Deviations of the last iteration's samples from their own mean, first time step.
       let m = 0;
       for (let i = 0; i < k; i++) m += ctrl.sampled[i * H];
@@ -138,6 +138,12 @@ describe("annealNoise", () => {
     expect(spreadOf([1, 0.1], 1) / sigma).toBeLessThan(1.2);
     expect(spreadOf([1, 0.1], 2) / (0.1 * sigma)).toBeGreaterThan(0.8);
     expect(spreadOf([1, 0.1], 2) / (0.1 * sigma)).toBeLessThan(1.2);
+    // The shift restarts the schedule: the second control step's single iteration is wide again
+    // (without the restart it would draw with s₂ = 0.1), and its second iteration narrow again.
+    expect(spreadOf([1, 0.1], 1, 2) / sigma).toBeGreaterThan(0.8);
+    expect(spreadOf([1, 0.1], 1, 2) / sigma).toBeLessThan(1.2);
+    expect(spreadOf([1, 0.1], 2, 2) / (0.1 * sigma)).toBeGreaterThan(0.8);
+    expect(spreadOf([1, 0.1], 2, 2) / (0.1 * sigma)).toBeLessThan(1.2);
     expect(spreadOf([1, 0.5, 0.25], 4) / (0.25 * sigma)).toBeGreaterThan(0.8);
     expect(spreadOf([1, 0.5, 0.25], 4) / (0.25 * sigma)).toBeLessThan(1.2);
   });

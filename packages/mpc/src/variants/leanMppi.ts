@@ -68,6 +68,12 @@ export interface LeanMppiOptions {
    * @defaultValue false (as in the presets: the step then allocates nothing after warm-up)
    */
   readonly timing?: boolean;
+  /**
+   * Check every intermediate rollout state for non-finite values (see
+   * ControllerParts.checkEveryStep).
+   * @defaultValue false
+   */
+  readonly checkEveryStep?: boolean;
 }
 
 const FN = "leanMppi";
@@ -161,5 +167,6 @@ export function leanMppi(options: LeanMppiOptions): Controller {
     seed: options.seed,
     sliceSize: options.sliceSize,
     timing: options.timing,
+    checkEveryStep: options.checkEveryStep,
   });
 }

@@ -290,11 +290,6 @@ export class QuadraticCostImpl implements QuadraticCost {
   }
 
   /**
-   * The diagonal fast path unrolled for n = 4 (the planar reference problems): the same terms in
-   * the same order as the general loop, so the sums are bit-identical; about 10 % of an MPPI step
-   * on the bicycle was this loop's per-component overhead (measured by the throughput profile).
-   */
-  /**
    * The diagonal fast path unrolled for n = 2 (the pendulum, a one-axis double integrator): the
    * same terms in the same order as the general loop, so the sums are bit-identical; half the time
    * of the general loop (scratch measurement, pendulum, 10⁵ states: 1.0 → 0.5 ms).
@@ -416,6 +411,11 @@ export class QuadraticCostImpl implements QuadraticCost {
     }
   }
 
+  /**
+   * The diagonal fast path unrolled for n = 4 (the planar reference problems): the same terms in
+   * the same order as the general loop, so the sums are bit-identical; about 10 % of an MPPI step
+   * on the bicycle was this loop's per-component overhead (measured by the throughput profile).
+   */
   private running4(
     x: Float64Array,
     xo: number,
